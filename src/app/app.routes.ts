@@ -1,0 +1,33 @@
+import { Routes } from '@angular/router';
+import { AUTH_ROUTES } from './auth/auth.routes';
+import { hasRole, signedIn } from './core/auth/guards';
+
+export const routes: Routes = [
+  {
+    path: '',
+    pathMatch: 'full',
+    title: 'Driftmark',
+    loadComponent: () => import('./landing/landing').then((m) => m.Landing),
+  },
+  ...AUTH_ROUTES,
+  {
+    path: 'home',
+    title: 'Home · Driftmark',
+    canActivate: [signedIn],
+    loadComponent: () => import('./home/home').then((m) => m.Home),
+  },
+  {
+    path: 'admin',
+    canActivate: [signedIn, hasRole('admin')],
+    loadChildren: () => import('./admin/admin.routes'),
+  },
+  {
+    path: 'calc',
+    loadChildren: () => import('./calc/calc.routes'),
+  },
+  {
+    path: '**',
+    title: 'Not found · Driftmark',
+    loadComponent: () => import('./not-found/not-found').then((m) => m.NotFound),
+  },
+];
