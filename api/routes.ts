@@ -1,0 +1,12 @@
+/** The API's route table, assembled from each resource's rows. */
+import { authRoutes } from './auth/auth.routes';
+import type { Ctx } from './context';
+import { healthRoutes } from './health/health.routes';
+import type { RouteDef } from './http/route-table';
+import { settingsRoutes } from './settings/settings.routes';
+import { adminRoutes } from './users/users.routes';
+import type pg from 'pg';
+
+export function buildRouteTable(ctx: Ctx, pool: pg.Pool): RouteDef[] {
+  return [...healthRoutes(pool), ...authRoutes(ctx), ...adminRoutes(ctx), ...settingsRoutes(ctx)];
+}
