@@ -29,6 +29,17 @@ export const apiNotFound: RequestHandler = (req) => {
 
 type BodyParserError = Error & { type?: string; status?: number; expose?: boolean };
 
+const UNREACHABLE_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', '57P01', '57P02', '57P03', '08000', '08003', '08006']);
+
+/** Is this (or its cause) PostgreSQL being unreachable, rather than a bug? */
+function databaseUnreachable(err: unknown): boolean {
+  for (let e = err as { code?: string; message?: string; cause?: unknown } | undefined, depth = 0; e && depth < 5; e = e.cause as typeof e, depth++) {
+    if (e.code && UNREACHABLE_CODES.has(e.code)) return true;
+    if (/Connection terminated|timeout exceeded when trying to connect|connect ECONNREFUSED/i.test(e.message ?? '')) return true;
+  }
+  return false;
+}
+
 /** The one error middleware, registered last. */
 export function errorMiddleware(log: { error: (obj: object, msg: string) => void }): ErrorRequestHandler {
   return (err: unknown, req, res, _next) => {
@@ -42,7 +53,9 @@ export function errorMiddleware(log: { error: (obj: object, msg: string) => void
         e = badRequest('The request body encoding is not supported: send UTF-8 JSON.', '(body)', 'unsupported-encoding');
       else if (typeof bp?.status === 'number' && bp.status >= 400 && bp.status < 500 && bp.expose)
         e = new AppError(bp.status, 'invalid-request', bp.message);
-      else {
+      else if (databaseUnreachable(err)) {
+        e = new AppError(503, 'database-unavailable', 'The database cannot be reached just now. Nothing was saved by this request; try again in a moment.', undefined, { 'Retry-After': '5' });
+      } else {
         log.error({ err, method: req.method, url: req.originalUrl }, 'unhandled error');
         e = new AppError(500, 'internal', 'Something went wrong on the server. Nothing was changed by the failed step; try again.');
       }
