@@ -7,6 +7,7 @@ import {
   SHORT_THRESHOLD_OHMS,
   VerdictInputError,
   chooseBand,
+  conformityProbability,
   judge,
   verdictInputProblems,
   type AcceptanceRule,
@@ -311,6 +312,14 @@ describe('judge', () => {
       expect(r.reason).toBe('over-range');
       expect(codes(r)).toContain('over-range-below-band');
     });
+    it('guarded: a full scale beyond the rejection limit is a conclusive high', () => {
+      expect(judge(at(3, { rule: guarded })).verdict).toBe('high');
+    });
+    it('analogue, the needle at ∞ on the ×1 k range (distinguishable to 323.3 kΩ, above the band): high; on the top range: open', () => {
+      expect(judge(at(1, { meter: analogueMeter() })).verdict).toBe('high');
+      expect(judge(at(2, { meter: analogueMeter() })).verdict).toBe('open');
+      expect(judge(at(0, { meter: analogueMeter() })).verdict).toBe('not-read');
+    });
     it('on a manual meter with no range recorded is not read', () => {
       const r = judge(at(undefined));
       expect(r.verdict).toBe('not-read');
@@ -522,6 +531,17 @@ describe('judge', () => {
     });
   });
 
+  describe('conformityProbability (JCGM 106:2012 §7, normal approximation)', () => {
+    it('is Φ((T_U − y)/u) − Φ((T_L − y)/u); with no upper limit only the lower term counts', () => {
+      expect(conformityProbability({ lowOhms: 90, highOhms: 110 }, 100, 5)).toBeCloseTo(0.954499736103642, 12); // Φ(2) − Φ(−2), A&S Table 26.1
+      expect(conformityProbability({ lowOhms: 90, highOhms: null }, 100, 5)).toBeCloseTo(0.977249868051821, 12);
+    });
+    it('with u = 0 it is 1 in band and 0 outside', () => {
+      expect(conformityProbability({ lowOhms: 90, highOhms: 110 }, 100, 0)).toBe(1);
+      expect(conformityProbability({ lowOhms: 90, highOhms: 110 }, 120, 0)).toBe(0);
+    });
+  });
+
   describe('validation', () => {
     const ok: VerdictInput = { expected: 100_000, band: { lowPct: -10, highPct: 20 }, reading: value(100_000) };
     it('accepts a signed band, refuses a positive lowPct with an explanation', () => {
@@ -543,6 +563,8 @@ describe('judge', () => {
       ['a range the meter lacks', { meter: workedMeter(), rangeIndex: 7 }, 'rangeIndex'],
       ['an open threshold below the short one', { thresholds: { openOhms: 0.5 } }, 'thresholds.openOhms'],
       ['an unknown kind', { kind: 'valve' }, 'kind'],
+      ['a positive continuity lowPct', { thresholds: { continuityLowPct: 50 } }, 'thresholds.continuityLowPct'],
+      ['a bad meter', { meter: { kind: 'digital', leadOhms: 0, ranges: [] } }, 'meter.ranges'],
     ];
     for (const [what, patch, field] of bad) {
       it(`refuses ${what} (field ${field})`, () => {
