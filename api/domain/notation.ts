@@ -81,7 +81,7 @@ export const BARE_M_WARNING_BEFORE_YEAR = 1950;
 
 const STATE_WORDS: ReadonlyArray<[RegExp, ReadingState]> = [
   [/^(ol|o\.l\.?|over-?range)$/i, 'over-range'],
-  [/^(open|∞|inf|infinity|open circuit)$/i, 'open'],
+  [/^(open|∞ ?Ω?|inf|infinity|open circuit)$/i, 'open'],
   [/^(short|shorted|short circuit)$/i, 'short'],
   [/^climbing$/i, 'climbing'],
   [/^unstable$/i, 'unstable'],
@@ -212,16 +212,21 @@ function parseHead(s: string): Head {
     const [whole, intPart, letter, fracPart] = code;
     if (letter === 'm') throw new Refusal(MILLI_MEGA);
     const exp = MULTIPLIER_LETTERS[letter.toUpperCase() as 'R' | 'K' | 'M' | 'G'];
+    // A unit may follow the code (4K7 Ω); it also settles a bare M.
+    const unit = /^ ?(Ω|ohms?\b)/i.exec(s.slice(whole.length));
     return {
       magnitude: { digits: (intPart || '0') + fracPart, exp: exp - fracPart.length, den: 1 },
       complete: true,
-      bareM: letter === 'M',
-      rest: s.slice(whole.length),
+      bareM: letter === 'M' && !unit,
+      rest: s.slice(whole.length + (unit ? unit[0].length : 0)),
     };
   }
 
   const number = parseNumber(s);
   let rest = s.slice(number.length).replace(/^ /, '');
+  if (number.hasExponent && /^([RrKkMG]|meg)/i.test(rest)) {
+    throw new Refusal('e-notation and a multiplier together: write one of them (1e3 or 1k)');
+  }
   const magnitude = number.magnitude;
   let complete = false;
   let bareM = false;
@@ -265,7 +270,7 @@ function parseHead(s: string): Head {
   return { magnitude, complete, bareM, rest };
 }
 
-function parseNumber(s: string): { length: number; magnitude: Magnitude; isFraction: boolean } {
+function parseNumber(s: string): { length: number; magnitude: Magnitude; isFraction: boolean; hasExponent?: boolean } {
   const glyph = /^(\d*) ?([½¼¾])/.exec(s);
   if (glyph) {
     const [num, den] = FRACTION_GLYPHS[glyph[2]];
@@ -295,6 +300,7 @@ function parseNumber(s: string): { length: number; magnitude: Magnitude; isFract
     length: whole.length,
     magnitude: { digits: (intPart || '0') + fracPart, exp: Number(expPart ?? 0) - fracPart.length, den: 1 },
     isFraction: false,
+    hasExponent: expPart !== undefined,
   };
 }
 

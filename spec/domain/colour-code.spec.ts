@@ -108,7 +108,7 @@ describe('decodeBodyTipDot', () => {
     [{ body: 'brown', tip: 'black', dot: 'yellow', end: 'beige' as Colour }, 'end', /not a colour of the code/],
   ];
   for (const [input, field, message] of REFUSED) {
-    it(`refuses ${JSON.stringify(input)} at ${field}, and reads the same part with a silver end`, () => {
+    it(`refuses ${JSON.stringify(input)} at ${field} (twins below)`, () => {
       const e = thrown(() => decodeBodyTipDot(input));
       expect(e.field).toBe(field);
       expect(e.message).toMatch(message);

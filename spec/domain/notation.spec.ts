@@ -55,6 +55,9 @@ const GRAMMAR: ReadonlyArray<{ text: string; ohms: number; tol: number | null; d
   { text: '4.7k ±10%', ohms: 4700, tol: 10, display: '4.7 kΩ ±10 %', code: '4K7K', source: 'tolerance written as a percentage' },
   { text: '470 +/-5 %', ohms: 470, tol: 5, display: '470 Ω ±5 %', code: '470RJ', source: 'tolerance written as a percentage' },
   { text: '68K 3%', ohms: 68_000, tol: 3, display: '68 kΩ ±3 %', code: '68K', source: 'a tolerance with no IEC 60062 letter keeps no letter in the code' },
+  { text: '4K7 Ω', ohms: 4700, tol: null, display: '4.7 kΩ', code: '4K7', source: 'letter code followed by the unit' },
+  { text: '2M2 ohm', ohms: 2_200_000, tol: null, display: '2.2 MΩ', code: '2M2', source: 'letter code followed by the unit' },
+  { text: '1E6', ohms: 1_000_000, tol: null, display: '1 MΩ', code: '1M0', source: 'e-notation, upper-case E' },
   { text: '  4k7  ', ohms: 4700, tol: null, display: '4.7 kΩ', code: '4K7', source: 'surrounding spaces ignored' },
   { text: '0', ohms: 0, tol: null, display: '0 Ω', code: '0R', source: 'a zero reading is a value; the verdict decides' },
 ];
@@ -82,6 +85,7 @@ describe('parseResistance: reading states', () => {
     ['open', 'open', 'open'],
     ['Open', 'open', 'open'],
     ['∞', 'open', 'open'],
+    ['∞ Ω', 'open', 'open'],
     ['inf', 'open', 'open'],
     ['short', 'short', 'short'],
     ['climbing', 'climbing', 'climbing'],
@@ -127,6 +131,7 @@ describe('parseResistance: refusals, each beside a twin that parses', () => {
     ['4K7J ±5%', /two tolerances/, '4K7 ±5%', 4700],
     ['4.7 µΩ', /micro/, '4.7 Ω', 4.7],
     ['hello', /not a resistance/, 'open', NaN],
+    ['1e3k', /e-notation and a multiplier/, '1e3', 1000],
     ['4.7 kΩ?', /not part of a resistance value/, '4.7 kΩ', 4700],
   ];
   for (const [text, reason, twin, twinOhms] of REFUSED) {
@@ -179,6 +184,10 @@ describe('parseResistance: a bare M in old service data', () => {
   });
   it('does not warn on 500M dated 1955', () => {
     expect(accepted(parseResistance('500M', { serviceDataYear: 1955 })).warnings).toEqual([]);
+  });
+  it('warns on the letter code 1M2 dated 1938, but not on 1M2 Ω', () => {
+    expect(accepted(parseResistance('1M2', { serviceDataYear: 1938 })).warnings.length).toBe(1);
+    expect(accepted(parseResistance('1M2 Ω', { serviceDataYear: 1938 })).warnings).toEqual([]);
   });
   it('does not warn on "2 meg" or "2.2 MΩ" dated 1938: the unit is explicit', () => {
     expect(accepted(parseResistance('2 meg', { serviceDataYear: 1938 })).warnings).toEqual([]);
