@@ -217,8 +217,11 @@ export function analysePart(
     implied = 0;
     notes.push(note('implied-at-zero'));
   }
-  const lowEnd = impliedOhms(high, readingOhms - u, componentCheck);
-  const highEnd = impliedOhms(low, readingOhms + u, componentCheck);
+  // A corner where the part happens to carry no current (a bridge balanced there) bounds nothing.
+  const lowRaw = impliedOhms(high, readingOhms - u, componentCheck);
+  const highRaw = impliedOhms(low, readingOhms + u, componentCheck);
+  const lowEnd = Number.isNaN(lowRaw) ? 0 : lowRaw;
+  const highEnd = Number.isNaN(highRaw) ? Number.POSITIVE_INFINITY : highRaw;
   let interval: OhmsInterval | null = null;
   if (Number.isFinite(lowEnd)) {
     const hi = Number.isFinite(highEnd) ? Math.max(0, highEnd) : null;
@@ -341,6 +344,7 @@ export function analyseInCircuit(input: InCircuitInput): InCircuitResult {
   validateInput(input);
   const { edges, from, to, partId } = input;
   const nets = toleranceNetworks(edges);
+  const byId = new Map(edges.map((e) => [e.id, e]));
   const notes: InCircuitNote[] = [];
   const effective = nets.nominal.resistance(from, to);
   const open = effective === null;
@@ -348,11 +352,11 @@ export function analyseInCircuit(input: InCircuitInput): InCircuitResult {
   const reading = input.readingOhms;
   const hasReading = reading !== undefined;
   const u = input.uncertaintyOhms ?? 0;
-  const part = partId === undefined ? undefined : edges.find((e) => e.id === partId)!;
+  const part = partId === undefined ? undefined : byId.get(partId)!;
   const componentCheck = part !== undefined && ((part.a === from && part.b === to) || (part.b === from && part.a === to));
 
   const missingTolerance = nets.nominal.includedEdgeIds.filter((id) => {
-    const e = edges.find((x) => x.id === id)!;
+    const e = byId.get(id)!;
     return e.ohms > 0 && e.tolerancePct === undefined;
   });
   if (!open && missingTolerance.length > 0) notes.push(note('tolerance-missing', missingTolerance));
@@ -400,7 +404,7 @@ export function analyseInCircuit(input: InCircuitInput): InCircuitResult {
   if (hasReading && !componentCheck && !open) {
     let skippedTies = false;
     for (const id of nets.nominal.includedEdgeIds) {
-      const e = edges.find((x) => x.id === id)!;
+      const e = byId.get(id)!;
       if (e.ohms === 0) {
         skippedTies = true;
         continue;

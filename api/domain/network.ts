@@ -174,6 +174,7 @@ export class ChassisNetwork {
   private readonly factor: Float64Array;
   /** pivots D_k. */
   private readonly pivots: Float64Array;
+  private probeCache: { sa: number; sb: number; y: Float64Array } | null = null;
 
   constructor(edges: readonly NetworkEdge[], options: NetworkOptions = {}) {
     validateEdges(edges);
@@ -433,7 +434,7 @@ export class ChassisNetwork {
       return { ...base, relation: 'linear', cause: null, r0Ohms: null, seriesOhms: series, computedBy: 'topology' };
     }
     const g = 1 / r;
-    const ya = this.forward(sa, sb);
+    const ya = this.probeVector(sa, sb);
     const yc = this.forward(sc, sd);
     const rab = this.quadratic(ya, ya);
     const rcd = this.quadratic(yc, yc);
@@ -499,6 +500,15 @@ export class ChassisNetwork {
       }
     }
     return seen;
+  }
+
+  /** forward(sa, sb) for the probes, kept for the next part asked about with the same probes. */
+  private probeVector(sa: number, sb: number): Float64Array {
+    const c = this.probeCache;
+    if (c !== null && c.sa === sa && c.sb === sb) return c.y;
+    const y = this.forward(sa, sb);
+    this.probeCache = { sa, sb, y };
+    return y;
   }
 
   /** y = U⁻¹ (e_su − e_sv) in reduced indices (grounded nodes drop out). */

@@ -254,6 +254,19 @@ describe('in-circuit reasoning, a reading that does not depend on the part', () 
     expect(res.explanation.candidates.map((c) => c.edgeId)).toContain('R1');
   });
 
+  it('bounds nothing from a tolerance corner where the bridge happens to balance (low end 0)', () => {
+    // Nominal 100/200 vs 300/500: unbalanced. All at upper limits: 110/220 = 300/600: balanced [CALC].
+    const edges = [r('R1', 'A', 'C', 100, 10), r('R2', 'C', 'B', 200, 10), r('R3', 'A', 'D', 300, 0), r('R4', 'D', 'B', 500, 20), r('R5', 'C', 'D', 1000, 10)];
+    const nets = toleranceNetworks(edges);
+    expect(nets.high.removal('R5', 'A', 'B').cause).toBe('no-current');
+    expect(nets.nominal.removal('R5', 'A', 'B').relation).toBe('rank-one');
+    const reading = nets.nominal.resistance('A', 'B')!;
+    const a = analysePart(nets, 'R5', 'A', 'B', reading, 0, { lowOhms: 900, highOhms: 1100 });
+    expect(a.impliedOhms).toBeCloseTo(1000, 4);
+    expect(a.impliedInterval!.lowOhms).toBe(0);
+    expect(a.verdict).toBe('inconclusive');
+  });
+
   it('says so for a dead end: a part hanging off one probe', () => {
     const edges = [r('R1', 'a', 'b', 1000, 10), r('Rx', 'b', 'z', 470, 10)];
     const res = analyseInCircuit({ edges, from: 'a', to: 'b', partId: 'Rx', readingOhms: 1000, uncertaintyOhms: 5 });
