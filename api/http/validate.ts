@@ -59,6 +59,23 @@ export interface Schemas<B, Q> {
   params?: Record<string, RegExp>;
 }
 
+/** The path of the first string holding a NUL character (PostgreSQL text cannot store one). */
+function findNul(v: unknown, path = ''): string | null {
+  if (typeof v === 'string') return v.includes('\u0000') ? path || '(body)' : null;
+  if (Array.isArray(v)) {
+    for (let i = 0; i < v.length; i++) {
+      const f = findNul(v[i], `${path}[${i}]`);
+      if (f) return f;
+    }
+  } else if (v && typeof v === 'object') {
+    for (const [k, x] of Object.entries(v)) {
+      const f = findNul(x, path ? `${path}.${k}` : k);
+      if (f) return f;
+    }
+  }
+  return null;
+}
+
 /** Validates at the edge; answers 400 naming the first failing field. */
 export function validate<B = unknown, Q = unknown>(schemas: Schemas<B, Q>): RequestHandler {
   const body: ValidateFunction | null = schemas.body ? ajv.compile(schemas.body) : null;
@@ -68,6 +85,8 @@ export function validate<B = unknown, Q = unknown>(schemas: Schemas<B, Q>): Requ
       const v = String(req.params[name] ?? '');
       if (!re.test(v)) throw badRequest(`"${name}" in the path is not valid: "${v.slice(0, 40)}".`, name, 'validation');
     }
+    const nul = body ? findNul(req.body) : null;
+    if (nul) throw badRequest(`"${nul}" holds a NUL character, which no field accepts.`, nul, 'validation');
     if (body && !body(req.body)) {
       const e = body.errors![0];
       throw badRequest(messageOf(e, 'request body'), fieldOf(e), 'validation');
@@ -96,7 +115,8 @@ export function validQuery<Q>(req: object): Q {
 /** Reusable schema pieces. */
 export const email = { type: 'string', format: 'email', minLength: 3, maxLength: 254 } as const;
 export const password = { type: 'string', minLength: 10, maxLength: 200 } as const;
-export const personName = { type: 'string', minLength: 1, maxLength: 120, pattern: '\\S' } as const;
+/** A person's name: free text with a visible character, no angle brackets or control characters. */
+export const personName = { type: 'string', minLength: 1, maxLength: 120, pattern: '^[^<>\\u0000-\\u001f\\u007f]*[^<>\\s\\u0000-\\u001f\\u007f][^<>\\u0000-\\u001f\\u007f]*$' } as const;
 export const token = { type: 'string', minLength: 16, maxLength: 200, pattern: '^[A-Za-z0-9_-]+$' } as const;
 
 /** A positive integer id in a path. */

@@ -18,7 +18,7 @@ const listQuery: JSONSchemaType<ListQuery> = {
   type: 'object',
   properties: {
     q: { type: 'string', maxLength: 200, nullable: true },
-    page: { type: 'integer', minimum: 0, maximum: 100000, default: 0 },
+    page: { type: 'integer', minimum: 1, maximum: 100000, default: 1 },
     pageSize: { type: 'integer', minimum: 1, maximum: 200, default: 25 },
   },
   required: [],
@@ -41,24 +41,25 @@ interface PatchBody {
   roles?: Role[];
   active?: boolean;
 }
-const patchBody: JSONSchemaType<PatchBody> = {
+// Optional fields are absent or valid, never null (hence the cast: JSONSchemaType wants nullable).
+const patchBody = {
   type: 'object',
-  properties: { name: { ...personName, nullable: true }, roles: { ...(roles as object), nullable: true } as never, active: { type: 'boolean', nullable: true } },
+  properties: { name: personName, roles, active: { type: 'boolean' } },
   required: [],
   minProperties: 1,
   additionalProperties: false,
-};
+} as unknown as JSONSchemaType<PatchBody>;
 interface InviteBody {
   email: string;
   name?: string;
   roles: Role[];
 }
-const inviteBody: JSONSchemaType<InviteBody> = {
+const inviteBody = {
   type: 'object',
-  properties: { email, name: { ...personName, nullable: true }, roles: roles as never },
+  properties: { email, name: personName, roles },
   required: ['email', 'roles'],
   additionalProperties: false,
-};
+} as unknown as JSONSchemaType<InviteBody>;
 export function adminRoutes(ctx: Ctx): RouteDef[] {
   return [
     {
