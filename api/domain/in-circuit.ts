@@ -254,7 +254,7 @@ export interface InCircuitInput {
   readingOhms?: number;
   /** U at the reading (the meter model's expanded uncertainty); absent = 0, with a note. */
   uncertaintyOhms?: number;
-  /** The part's acceptance band as the size of each side in percent (10 and 20 for −10 %/+20 %); else ± its tolerancePct. */
+  /** The part's acceptance band in signed percent, as the verdict takes it (−10 and +20 for −10 %/+20 %); else ± its tolerancePct. */
   band?: { lowPct: number; highPct: number };
 }
 
@@ -331,8 +331,9 @@ function validateInput(input: unknown): asserts input is InCircuitInput {
     if (typeof band !== 'object' || band === null) throw new NetworkError('band', 'band must be { lowPct, highPct }');
     const b = band as Record<string, unknown>;
     const lowPct = b['lowPct'];
-    if (!isFiniteNonNegative(lowPct) || lowPct > 100) throw new NetworkError('band.lowPct', 'band.lowPct is the size of the lower side in percent (10 for −10 %): from 0 to 100');
-    if (!isFiniteNonNegative(b['highPct'])) throw new NetworkError('band.highPct', 'band.highPct is the size of the upper side in percent (20 for +20 %): 0 or more');
+    if (typeof lowPct !== 'number' || !Number.isFinite(lowPct) || lowPct > 0 || lowPct <= -100)
+      throw new NetworkError('band.lowPct', 'band.lowPct is the lower side in signed percent (write −10 for 10 % below): above −100 and at most 0');
+    if (!isFiniteNonNegative(b['highPct'])) throw new NetworkError('band.highPct', 'band.highPct is the upper side in percent (20 for +20 %): 0 or more');
   }
 }
 
@@ -371,7 +372,7 @@ export function analyseInCircuit(input: InCircuitInput): InCircuitResult {
 
   let band: InCircuitExplanation['band'] = null;
   if (part !== undefined && part.ohms > 0) {
-    if (input.band !== undefined) band = { lowOhms: part.ohms * (1 - input.band.lowPct / 100), highOhms: part.ohms * (1 + input.band.highPct / 100), source: 'input' };
+    if (input.band !== undefined) band = { lowOhms: part.ohms * (1 + input.band.lowPct / 100), highOhms: part.ohms * (1 + input.band.highPct / 100), source: 'input' };
     else if (part.tolerancePct !== undefined) band = { ...tolBand(part)!, source: 'tolerance' };
   }
 

@@ -134,7 +134,7 @@ describe('analyseInCircuit, component check (hand-worked case A)', () => {
   });
 
   it('takes the band from the request over the tolerance (asymmetric −10 %/+20 %)', () => {
-    const res = analyseInCircuit({ ...inputA(9000), band: { lowPct: 10, highPct: 20 } });
+    const res = analyseInCircuit({ ...inputA(9000), band: { lowPct: -10, highPct: 20 } });
     expect(res.explanation.band).toEqual({ lowOhms: 9000, highOhms: 12000, source: 'input' });
     expect(res.verdict).toBe('in-band'); // 11.45 k … 11.79 k lies inside 9 k … 12 k
   });
@@ -342,9 +342,9 @@ describe('analyseInCircuit validation (NetworkError names the field)', () => {
     expect(fieldOf({ ...good(), readingOhms: 0 })).toBeNull();
   });
   it('refuses a band side given as a signed number', () => {
-    expect(fieldOf({ ...good(), band: { lowPct: -10, highPct: 10 } })).toBe('band.lowPct');
-    expect(fieldOf({ ...good(), band: { lowPct: 10, highPct: -10 } })).toBe('band.highPct');
-    expect(fieldOf({ ...good(), band: { lowPct: 10, highPct: 10 } })).toBeNull();
+    expect(fieldOf({ ...good(), band: { lowPct: 10, highPct: 10 } })).toBe('band.lowPct');
+    expect(fieldOf({ ...good(), band: { lowPct: -10, highPct: -10 } })).toBe('band.highPct');
+    expect(fieldOf({ ...good(), band: { lowPct: -10, highPct: 10 } })).toBeNull();
   });
   it('refuses a request that is not an object', () => expect(fieldOf(null)).toBe('body'));
 });
