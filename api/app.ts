@@ -63,6 +63,7 @@ export function createApp(deps: AppDeps): Express & { routeTable: readonly Route
   );
   if (log.level !== 'silent') app.use(pinoHttp({ logger: log, autoLogging: { ignore: (req) => !req.url?.startsWith('/api/') } }));
 
+  app.use('/api/calc', express.json({ limit: config.calc.bodyLimitBytes, strict: true }));
   app.use('/api', express.json({ limit: config.bodyLimitBytes, strict: true }));
   app.use('/api', (_req, res, next) => {
     res.setHeader('Cache-Control', 'no-store');

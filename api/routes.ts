@@ -1,5 +1,6 @@
 /** The API's route table, assembled from each resource's rows. */
 import { authRoutes } from './auth/auth.routes';
+import { calcRoutes } from './calc/calc.routes';
 import type { Ctx } from './context';
 import { healthRoutes } from './health/health.routes';
 import type { RouteDef } from './http/route-table';
@@ -8,5 +9,5 @@ import { adminRoutes } from './users/users.routes';
 import type pg from 'pg';
 
 export function buildRouteTable(ctx: Ctx, pool: pg.Pool): RouteDef[] {
-  return [...healthRoutes(pool), ...authRoutes(ctx), ...adminRoutes(ctx), ...settingsRoutes(ctx)];
+  return [...healthRoutes(pool), ...authRoutes(ctx), ...adminRoutes(ctx), ...settingsRoutes(ctx), ...calcRoutes(ctx.config)];
 }

@@ -36,6 +36,12 @@ const MATRIX: Record<string, Record<Caller, Expect>> = {
   'POST /api/admin/invitations': ADMIN_ONLY,
   'GET /api/admin/settings': ADMIN_ONLY,
   'PUT /api/admin/settings': ADMIN_ONLY,
+  'POST /api/calc/parse': ALL_OK,
+  'POST /api/calc/color-code': ALL_OK,
+  'GET /api/calc/preferred': ALL_OK,
+  'POST /api/calc/verdict': ALL_OK,
+  'POST /api/calc/network': ALL_OK,
+  'POST /api/calc/dissipation': ALL_OK,
 };
 
 type Agent = ReturnType<typeof request>;
@@ -59,6 +65,12 @@ const REQUESTS: Record<string, (a: Agent, h: Record<string, string>) => Promise<
   'POST /api/admin/invitations': async (a, h) => a.post('/api/admin/invitations').set(h).send({ email: `inv-${Math.random().toString(36).slice(2)}@spec.example`, roles: ['student'] }),
   'GET /api/admin/settings': async (a, h) => a.get('/api/admin/settings').set(h),
   'PUT /api/admin/settings': async (a, h) => a.put('/api/admin/settings').set(h).send({ openSignUp: true }),
+  'POST /api/calc/parse': async (a, h) => a.post('/api/calc/parse').set(h).send({ text: '4k7' }),
+  'POST /api/calc/color-code': async (a, h) => a.post('/api/calc/color-code').set(h).send({ bands: ['brown', 'black', 'yellow', 'silver'] }),
+  'GET /api/calc/preferred': async (a, h) => a.get('/api/calc/preferred?ohms=47000&series=E12').set(h),
+  'POST /api/calc/verdict': async (a, h) => a.post('/api/calc/verdict').set(h).send({ expected: 4700, reading: '4k9', tolerancePct: 10 }),
+  'POST /api/calc/network': async (a, h) => a.post('/api/calc/network').set(h).send({ edges: [{ id: 'R1', a: 'A', b: 'B', ohms: 1000 }], from: 'A', to: 'B' }),
+  'POST /api/calc/dissipation': async (a, h) => a.post('/api/calc/dissipation').set(h).send({ ohms: 1000, volts: 10 }),
 };
 
 describe('Access matrix', () => {

@@ -20,6 +20,8 @@ interface WriteRoute {
 
 /** Free text that may legitimately hold quotes and SQL-looking words (stored verbatim, never run). */
 const FREE_TEXT = ['password', 'name'];
+/** Fields that take text or a number alike. */
+const TEXT_OR_NUMBER = ['reading'];
 /** Secrets: any printable character goes. */
 const SECRETS = ['password'];
 
@@ -58,6 +60,23 @@ const ROUTES: Record<string, WriteRoute> = {
   },
   'POST /api/admin/invitations': { method: 'post', path: async () => '/api/admin/invitations', valid: async () => ({ email: unique('inv'), name: 'Inv', roles: ['student'] }), auth: 'admin', optional: ['name'] },
   'PUT /api/admin/settings': { method: 'put', path: async () => '/api/admin/settings', valid: async () => ({ openSignUp: true }), auth: 'admin' },
+  'POST /api/calc/parse': { method: 'post', path: async () => '/api/calc/parse', valid: async () => ({ text: '4k7', serviceDataYear: 1948 }), auth: 'none', optional: ['serviceDataYear'] },
+  'POST /api/calc/color-code': { method: 'post', path: async () => '/api/calc/color-code', valid: async () => ({ bands: ['yellow', 'violet', 'red', 'gold'] }), auth: 'none' },
+  'POST /api/calc/verdict': {
+    method: 'post',
+    path: async () => '/api/calc/verdict',
+    valid: async () => ({ expected: 100000, reading: '104k', tolerancePct: 10, rule: { decision: 'simple', nearLimitFraction: 0.75, bandFrom: 'template' } }),
+    auth: 'none',
+    optional: ['tolerancePct', 'rule'],
+  },
+  'POST /api/calc/network': {
+    method: 'post',
+    path: async () => '/api/calc/network',
+    valid: async () => ({ edges: [{ id: 'R1', a: 'A', b: 'B', ohms: 1000 }], from: 'A', to: 'B', readingOhms: 990 }),
+    auth: 'none',
+    optional: ['readingOhms'],
+  },
+  'POST /api/calc/dissipation': { method: 'post', path: async () => '/api/calc/dissipation', valid: async () => ({ ohms: 100000, volts: 150 }), auth: 'none', optional: ['volts'] },
 };
 
 /** Malformed variants of a valid body: each says what is wrong with it. */
@@ -76,7 +95,12 @@ function malformedBodies(valid: Body, optional: string[] = []): [string, string 
     const rest = { ...valid };
     delete rest[field];
     if (!optional.includes(field)) out.push([`missing ${field}`, rest]);
-    out.push([`${field} as a number`, { ...valid, [field]: 12345 }]);
+    if (typeof value === 'number') {
+      out.push([`${field} as a numeric string`, { ...valid, [field]: String(value) }]);
+      out.push([`${field} as "NaN"`, { ...valid, [field]: 'NaN' }]);
+      out.push([`${field} negative`, { ...valid, [field]: -Math.abs(value) - 1 }]);
+      out.push([`${field} beyond any range`, { ...valid, [field]: 1e308 }]);
+    } else if (!TEXT_OR_NUMBER.includes(field)) out.push([`${field} as a number`, { ...valid, [field]: 12345 }]);
     out.push([`${field} as an object`, { ...valid, [field]: { $ne: null } }]);
     out.push([`${field} as null`, { ...valid, [field]: null }]);
     if (typeof value === 'string') {
