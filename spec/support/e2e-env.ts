@@ -154,7 +154,7 @@ export interface PageWatch {
   pageErrors: string[];
   /** `securitypolicyviolation` events: "directive blocked-uri". */
   csp: string[];
-  /** Responses with status ≥ 400 and failed requests: "STATUS METHOD URL". */
+  /** Responses with status ≥ 400 and failed requests (not aborted ones): "STATUS METHOD URL". */
   failures: string[];
 }
 
@@ -182,7 +182,12 @@ export async function newContext(options: BrowserContextOptions = {}): Promise<{
   context.on('response', (res) => {
     if (res.status() >= 400) watch.failures.push(`${res.status()} ${res.request().method()} ${res.url()}`);
   });
-  context.on('requestfailed', (req) => watch.failures.push(`failed(${req.failure()?.errorText}) ${req.method()} ${req.url()}`));
+  context.on('requestfailed', (req) => {
+    const why = req.failure()?.errorText ?? '';
+    // ERR_ABORTED: a navigation cancelled the request, or (seen with the app's service worker in
+    // control) the page's side of a request the worker then made itself and answered.
+    if (!why.includes('ERR_ABORTED')) watch.failures.push(`failed(${why}) ${req.method()} ${req.url()}`);
+  });
   context.on('console', (msg) => {
     if (msg.type() === 'error') watch.consoleErrors.push(`${msg.text()} (${msg.location().url})`);
   });
