@@ -3,7 +3,7 @@
  * Debian's Chromium (both installed when missing), ending with one plain line totalling them all:
  * `N passed, N failed`. `npm test -- api` (or domain, karma, e2e) runs one part.
  *
- * Suites: domain (jasmine, pure computation) · api (jasmine + supertest on PostgreSQL) ·
+ * Suites: types (tsc on every TypeScript project: one check each) · domain (jasmine, pure computation) · api (jasmine + supertest on PostgreSQL) ·
  * karma (component specs in Chromium) · e2e (jasmine + playwright-core in Chromium against the
  * built app and a real server).
  */
@@ -16,7 +16,7 @@ import { buildApp } from './app-build';
 import { ensurePostgresInstalled, isRoot, PROJECT_ROOT, recreateDatabase, startCluster, stopCluster, type Cluster } from './cluster';
 import { runMigrations } from './migrate';
 
-const ALL = ['domain', 'api', 'karma', 'e2e'] as const;
+const ALL = ['types', 'domain', 'api', 'karma', 'e2e'] as const;
 type Part = (typeof ALL)[number];
 const say = (s: string) => console.log(`\n[test] ${s}`);
 
@@ -87,6 +87,16 @@ async function main(): Promise<void> {
     };
 
     for (const part of parts) {
+      if (part === 'types') {
+        say('Type checks (tsc)');
+        const counts = { suite: 'types', passed: 0, failed: 0, skipped: 0 };
+        for (const project of ['tsconfig.api.json', 'tsconfig.e2e.json', 'tsconfig.app.json', 'tsconfig.spec.json']) {
+          const r = await runLogged(process.execPath, [join('node_modules', 'typescript', 'bin', 'tsc'), '-p', project, '--noEmit'], env);
+          if (r.code === 0) counts.passed++;
+          else counts.failed++;
+        }
+        results.push(counts);
+      }
       if (part === 'domain') await jasmineSuite('domain', 'spec/support/jasmine-domain.json');
       if (part === 'api') {
         const url = await recreateDatabase(cluster!, 'driftmark_api_test');
