@@ -3,7 +3,9 @@
  * issues that build them. Refuses to create demo accounts when NODE_ENV=production.
  */
 import bcrypt from 'bcrypt';
-import { count } from 'drizzle-orm';
+import { count, sql } from 'drizzle-orm';
+import { parseArgs } from 'node:util';
+import { createDatabase } from '../api/db';
 import type { Db } from '../api/db';
 import { users, type Role } from '../schema/index';
 
@@ -24,9 +26,40 @@ export async function seedDemo(db: Db, env: NodeJS.ProcessEnv = process.env): Pr
   const [{ n }] = await db.select({ n: count() }).from(users);
   if (n > 0) return 0;
   if (env.NODE_ENV === 'production') {
-    throw new SeedRefused('Refusing to create demo accounts with NODE_ENV=production. Create the first admin with `npm run seed -- --admin EMAIL`.');
+    throw new SeedRefused(
+      'Refusing to create demo accounts with NODE_ENV=production. Create the first admin with: ' +
+        'DATABASE_URL=… ADMIN_PASSWORD=… npm run seed -- --admin EMAIL --name "Full Name"',
+    );
   }
   const passwordHash = await bcrypt.hash(DEMO_PASSWORD, 11);
   await db.insert(users).values(DEMO_ACCOUNTS.map((a) => ({ ...a, passwordHash })));
   return DEMO_ACCOUNTS.length;
+}
+
+/** Creates one admin account (for a production instance, where no demo accounts exist). */
+export async function createAdmin(db: Db, email: string, name: string, password: string): Promise<void> {
+  if (password.length < 10) throw new SeedRefused('ADMIN_PASSWORD must be at least 10 characters.');
+  const [existing] = await db.select({ id: users.id }).from(users).where(sql`lower(${users.email}) = lower(${email})`);
+  if (existing) throw new SeedRefused(`An account with ${email} already exists.`);
+  await db.insert(users).values({ email, name, roles: ['admin'], passwordHash: await bcrypt.hash(password, 11) });
+}
+
+// `npm run seed` (DATABASE_URL set): the demo accounts, or with --admin one admin account.
+if (import.meta.url === `file://${process.argv[1]}`) {
+  const { values } = parseArgs({ options: { admin: { type: 'string' }, name: { type: 'string' } } });
+  const url = process.env.DATABASE_URL;
+  if (!url) {
+    console.error('Set DATABASE_URL (npm start seeds its own cluster by itself).');
+    process.exit(2);
+  }
+  const database = createDatabase(url, { max: 1 });
+  const work = values.admin
+    ? createAdmin(database.db, values.admin, values.name ?? values.admin, process.env.ADMIN_PASSWORD ?? '').then(() => console.log(`Admin ${values.admin} created.`))
+    : seedDemo(database.db).then((n) => console.log(n ? `${n} demo accounts created.` : 'Users exist already: nothing seeded.'));
+  work
+    .catch((e) => {
+      console.error(e instanceof SeedRefused ? e.message : e);
+      process.exitCode = 1;
+    })
+    .finally(() => database.close());
 }
