@@ -1,10 +1,10 @@
 import { Routes } from '@angular/router';
 
-/** The quick check (`/calc`); the placeholder page is replaced by the real one. */
+/** The quick check (`/calc`): public, no sign-in. */
 export default [
   {
     path: '',
     title: 'Quick check · Driftmark',
-    loadComponent: () => import('./calc-placeholder/calc-placeholder').then((m) => m.CalcPlaceholder),
+    loadComponent: () => import('./quick-check/quick-check').then((m) => m.QuickCheck),
   },
 ] satisfies Routes;
