@@ -1,0 +1,83 @@
+/**
+ * `npm run bench` — every timing target of Driftmark lives here, never in tests (issue 2).
+ *
+ *   npx tsx bench/run.ts [--check] [--only=domain|api|auth]
+ *
+ * stdout: one JSON object per figure (the first one describes the machine); with --check, then
+ * one PASS/FAIL line per target, and exit 1 when a gating target fails. Progress goes to stderr.
+ * See bench/README.md for the groups, the targets and their sources.
+ */
+import { cpus, totalmem } from 'node:os';
+import { runDomain } from './domain';
+import { progress, type Figure } from './lib/stats';
+
+const GROUPS = ['domain', 'api', 'auth'] as const;
+type Group = (typeof GROUPS)[number];
+
+function parseArgs(argv: string[]): { check: boolean; groups: Group[] } {
+  let check = false;
+  let groups: Group[] = [...GROUPS];
+  for (const arg of argv) {
+    if (arg === '--check') check = true;
+    else if (arg.startsWith('--only=')) {
+      const wanted = arg.slice('--only='.length).split(',');
+      for (const g of wanted) if (!(GROUPS as readonly string[]).includes(g)) throw new Error(`unknown group '${g}': use ${GROUPS.join(', ')}`);
+      groups = GROUPS.filter((g) => wanted.includes(g));
+    } else if (arg === '--help' || arg === '-h') {
+      process.stderr.write('usage: npx tsx bench/run.ts [--check] [--only=domain|api|auth]\n');
+      process.exit(0);
+    } else throw new Error(`unknown argument '${arg}'`);
+  }
+  return { check, groups };
+}
+
+async function main(): Promise<number> {
+  const { check, groups } = parseArgs(process.argv.slice(2));
+  const figures: Figure[] = [];
+  const emit = (f: Figure): void => {
+    figures.push(f);
+    process.stdout.write(JSON.stringify(f) + '\n');
+  };
+  const cpu = cpus();
+  emit({
+    figure: 'machine',
+    value: cpu.length,
+    unit: 'cores',
+    target: null,
+    cpuModel: cpu[0]?.model ?? 'unknown',
+    node: process.version,
+    platform: `${process.platform}-${process.arch}`,
+    memoryGiB: Math.round((totalmem() / 2 ** 30) * 10) / 10,
+    groups,
+    date: new Date().toISOString(),
+  });
+  const started = Date.now();
+  if (groups.includes('domain')) {
+    progress('group domain');
+    await runDomain(emit);
+  }
+  if (groups.includes('api') || groups.includes('auth')) {
+    const { runServerGroups } = await import('./api');
+    await runServerGroups(emit, { api: groups.includes('api'), auth: groups.includes('auth') });
+  }
+  progress(`done in ${((Date.now() - started) / 1000).toFixed(1)} s`);
+  if (!check) return 0;
+  let failed = 0;
+  for (const f of figures) {
+    if (f.target === null) continue;
+    const ok = f.value <= f.target;
+    const gating = f.gating !== false;
+    if (!ok && gating) failed++;
+    const stat = typeof f['stat'] === 'string' ? `${f['stat']} ` : '';
+    process.stdout.write(`${ok ? 'PASS' : 'FAIL'} ${f.figure} (${stat}${f.value} ${f.unit}, target ≤ ${f.target})${gating ? '' : ' — information only, not counted'}\n`);
+  }
+  return failed > 0 ? 1 : 0;
+}
+
+main().then(
+  (code) => process.exit(code),
+  (e: unknown) => {
+    process.stderr.write(`[bench] failed: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`);
+    process.exit(2);
+  },
+);
