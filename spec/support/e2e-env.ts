@@ -165,6 +165,8 @@ export interface PageWatch {
 export async function newContext(options: BrowserContextOptions = {}): Promise<{ context: BrowserContext; watch: PageWatch }> {
   const context = await e2e().browser.newContext({ viewport: { width: 1280, height: 800 }, ...options });
   openContexts.push(context);
+  // Fail a wait well inside jasmine's 60 s, with Playwright's own account of what it waited for.
+  context.setDefaultTimeout(15_000);
   const watch: PageWatch = { requests: [], foreign: [], consoleErrors: [], pageErrors: [], csp: [], failures: [] };
   await context.exposeBinding('__driftmarkCspViolation', (_source, line: string) => void watch.csp.push(line));
   await context.addInitScript(() => {
