@@ -40,7 +40,7 @@ interface NetworkReading {
  * the parts drifted up 10–50 %, 3 % down 30 %, 2 % open; the readings are what that network shows
  * between each part's two nodes, as the meter displays them (rounded to 3 figures, lead added).
  */
-function networkSurvey(edges: NetworkEdge[], count: number, seed: number): NetworkReading[] {
+export function networkSurvey(edges: NetworkEdge[], count: number, seed: number): NetworkReading[] {
   const rng = mulberry32(seed);
   const open: string[] = [];
   const asFound = new Map<string, number>();
@@ -67,7 +67,7 @@ function networkSurvey(edges: NetworkEdge[], count: number, seed: number): Netwo
 }
 
 /** Recompute a survey with a network: tolerance networks built once, then each reading's verdict and in-circuit analysis. */
-function recomputeNetworkSurvey(edges: NetworkEdge[], readings: NetworkReading[]): number {
+export function recomputeNetworkSurvey(edges: NetworkEdge[], readings: NetworkReading[]): number {
   const nets = toleranceNetworks(edges);
   let acc = 0;
   for (const r of readings) {
