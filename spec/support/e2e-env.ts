@@ -89,7 +89,15 @@ export async function startAppServer(extra: NodeJS.ProcessEnv = {}, port: number
   const dataDir = mkdtempSync(join(tmpdir(), 'driftmark-e2e-data-'));
   dataDirs.push(dataDir);
   const config = loadConfig({ ...E2E_SERVER_ENV, PORT: String(port), ...extra }, { dataDir, appDistDir: APP_DIST });
-  const server = await startServer({ config, databaseUrl, smtpUrl: mail.url });
+  const running = await startServer({ config, databaseUrl, smtpUrl: mail.url });
+  const server: RunningServer = {
+    ...running,
+    close: () => {
+      const i = extraServers.indexOf(server);
+      if (i >= 0) extraServers.splice(i, 1);
+      return running.close();
+    },
+  };
   extraServers.push(server);
   return server;
 }
