@@ -61,7 +61,20 @@ export function createApp(deps: AppDeps): Express & { routeTable: readonly Route
       crossOriginEmbedderPolicy: false,
     }),
   );
-  if (log.level !== 'silent') app.use(pinoHttp({ logger: log, autoLogging: { ignore: (req) => !req.url?.startsWith('/api/') } }));
+  if (log.level !== 'silent') {
+    // One structured line per API request: method, path, status, time — never headers or bodies
+    // (they carry tokens and passwords).
+    app.use(
+      pinoHttp({
+        logger: log,
+        autoLogging: { ignore: (req) => !req.url?.startsWith('/api/') },
+        serializers: {
+          req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, path: req.url.split('?')[0] }),
+          res: (res: { statusCode: number }) => ({ status: res.statusCode }),
+        },
+      }),
+    );
+  }
 
   app.use('/api/calc', express.json({ limit: config.calc.bodyLimitBytes, strict: true }));
   app.use('/api', express.json({ limit: config.bodyLimitBytes, strict: true }));
