@@ -9,7 +9,7 @@
  *
  * Pure TypeScript: no framework or Node-only imports (the Angular app imports this module).
  */
-import type { ComponentKind, ValueSource } from './words';
+import { COMPONENT_KINDS, type ComponentKind, type ValueSource } from './words';
 
 export const TEMPLATE_FORMAT = 'driftmark-template' as const;
 export const TEMPLATE_FORMAT_VERSION = 1 as const;
@@ -138,11 +138,20 @@ export interface CapacitorInfo {
   lineConnected: boolean;
 }
 
+/**
+ * Component kinds of the document: the DESIGN.md §2 kinds plus `wire`, a 0-Ω link between two
+ * tie points (pin to pin, e.g. the links of a series heater string, or a cathode wired to B−).
+ * Without it two wired pins could only be one node under two names. `wire` is an addition of
+ * this format to the §2 list (proposed for words.ts); its nominal is `{ state: 'short' }`.
+ */
+export const TEMPLATE_COMPONENT_KINDS = [...COMPONENT_KINDS, 'wire'] as const;
+export type TemplateComponentKind = ComponentKind | 'wire';
+
 export interface Component {
   key: string;
-  /** R12, C8, T2 … */
+  /** R12, C8, T2 … (a wire: W1, W2 …) */
   ref: string;
-  kind: ComponentKind;
+  kind: TemplateComponentKind;
   stageKey: string;
   /** Node names: `<designator>.<pin>`, `chassis`, `B-`, `B+`, or a junction name. */
   nodes: [string, string];
