@@ -1,11 +1,11 @@
-import { ChangeDetectionStrategy, Component, computed, inject, output, viewChildren } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, OnInit, computed, inject, output, viewChildren } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelect, MatSelectModule } from '@angular/material/select';
 import { COLOURS, Colour, ColourCodeError, DecodedBands, decodeBands, decodeBodyTipDot } from '@domain/colour-code';
-import { map } from 'rxjs';
+import { map, startWith } from 'rxjs';
 import { ohmsText } from '../calc-format';
 
 export type MarkingMode = '4' | '5' | 'btd';
@@ -37,7 +37,7 @@ export type Decoded = { ok: true; value: DecodedBands } | { ok: false; message: 
 /**
  * Colour bands picked on a resistor body drawn in SVG (IEC 60062): 4 or 5 bands, or body–tip–dot
  * for old composition parts. Each band is a labelled select (the keyboard path); a click on a band
- * of the drawing opens that select. Emits the decoded value on every pick.
+ * of the drawing opens that select. Emits the decoded value on opening and on every pick.
  */
 @Component({
   selector: 'dm-colour-picker',
@@ -46,7 +46,8 @@ export type Decoded = { ok: true; value: DecodedBands } | { ok: false; message: 
   styleUrl: './colour-picker.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class ColourPicker {
+export class ColourPicker implements OnInit {
+  private readonly destroyRef = inject(DestroyRef);
   private readonly fb = inject(NonNullableFormBuilder);
   readonly picked = output<DecodedBands>();
 
@@ -83,8 +84,9 @@ export class ColourPicker {
   /** Band positions along the body (x of each band's left edge, in the drawing's units). */
   protected readonly bandX = computed(() => (this.mode() === '5' ? [70, 96, 122, 148, 214] : [74, 104, 134, 214]));
 
-  constructor() {
-    this.form.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => {
+  /** Emits what the bands read as soon as the picker opens, then on every pick. */
+  ngOnInit(): void {
+    this.form.valueChanges.pipe(startWith(null), takeUntilDestroyed(this.destroyRef)).subscribe(() => {
       const d = decode(this.form.getRawValue());
       if (d.ok) this.picked.emit(d.value);
     });

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, inject, model } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, OnInit, computed, inject, output, signal } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { FormArray, FormGroup, FormControl, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -22,8 +22,8 @@ type AnalogueRow = FormGroup<{ centre: FormControl<string>; arcPct: FormControl<
 /**
  * The user's meter (DESIGN.md §2 "meter profile"): digital ranges with full scale, resolution and
  * ±(% of reading + counts), autorange, lead resistance; or analogue ranges with centre values and
- * arc error. Two presets to start from, every field editable. Two-way `choice`: the usable
- * profile, or null when switched off or not usable.
+ * arc error. Two presets to start from, every field editable. `choiceChange` emits the usable
+ * profile (null when switched off or not usable) once at start and on every change.
  */
 @Component({
   selector: 'dm-meter-editor',
@@ -43,9 +43,11 @@ type AnalogueRow = FormGroup<{ centre: FormControl<string>; arcPct: FormControl<
   changeDetection: ChangeDetectionStrategy.OnPush,
   providers: [{ provide: ErrorStateMatcher, useClass: ShowOnDirtyErrorStateMatcher }],
 })
-export class MeterEditor {
+export class MeterEditor implements OnInit {
   private readonly fb = inject(NonNullableFormBuilder);
-  readonly choice = model<MeterChoice | null>(null);
+  private readonly destroyRef = inject(DestroyRef);
+  readonly choiceChange = output<MeterChoice | null>();
+  protected readonly choice = signal<MeterChoice | null>(null);
 
   protected readonly presets = METER_PRESETS;
   protected readonly messages = CALC_MESSAGES;
@@ -74,8 +76,13 @@ export class MeterEditor {
 
   constructor() {
     this.load(METER_PRESETS[0].profile);
-    this.form.valueChanges.pipe(startWith(null), takeUntilDestroyed()).subscribe(() => {
-      this.choice.set(meterChoiceOf(this.form.getRawValue() as MeterFormValue));
+  }
+
+  ngOnInit(): void {
+    this.form.valueChanges.pipe(startWith(null), takeUntilDestroyed(this.destroyRef)).subscribe(() => {
+      const choice = meterChoiceOf(this.form.getRawValue() as MeterFormValue);
+      this.choice.set(choice);
+      this.choiceChange.emit(choice);
     });
   }
 

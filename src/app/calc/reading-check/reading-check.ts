@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, model, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, output, signal } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -72,8 +72,10 @@ export class ReadingCheck {
   private readonly fb = inject(NonNullableFormBuilder);
   private readonly api = inject(CalcApi);
 
-  /** The meter profile in use (two-way: the page hands it to the network panel too). */
-  readonly meter = model<MeterChoice | null>(null);
+  /** The meter profile in use, as the meter editor last gave it. */
+  protected readonly meter = signal<MeterChoice | null>(null);
+  /** The same, for the page to hand to the network panel. */
+  readonly meterChange = output<MeterChoice | null>();
 
   protected readonly messages = CALC_MESSAGES;
   protected readonly stateKeys = STATE_KEYS;
@@ -160,6 +162,11 @@ export class ReadingCheck {
         }
       }
     });
+  }
+
+  protected useMeter(choice: MeterChoice | null): void {
+    this.meter.set(choice);
+    this.meterChange.emit(choice);
   }
 
   /** Colour bands picked: the nominal and tolerance they mark. */
