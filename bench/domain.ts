@@ -19,6 +19,8 @@ function timed(figure: string, t: Timing, target: number | null, extra: Record<s
     unit: 'ms',
     stat: 'median',
     p95: round(t.p95Ms),
+    min: round(t.minMs),
+    cpuMedian: round(t.cpuMedianMs),
     iterations: t.iterations,
     target,
     ...(target !== null ? { source: ISSUE } : {}),
@@ -116,7 +118,7 @@ export async function runDomain(emit: (f: Figure) => void): Promise<void> {
       for (const r of survey) acc += checkReading(r).explanation.notes.length;
       return acc;
     },
-    { warmupMs: 500, minMs: 2000, minIterations: 100 },
+    { warmupMs: 500, minMs: 3000, minIterations: 200 },
   );
   emit(timed('domain.survey-400.no-network', t1, 5, { readings: survey.length, per: '400 readings', function: 'checkReading (api/domain/quick-check.ts)' }));
 

@@ -18,6 +18,8 @@ export interface Timing {
   medianMs: number;
   p95Ms: number;
   minMs: number;
+  /** Median CPU time of the process per call (process.cpuUsage: user + system, GC threads included): a diagnostic for a busy machine, where wall time also counts the time spent waiting for a core. */
+  cpuMedianMs: number;
   iterations: number;
 }
 
@@ -52,16 +54,21 @@ export function timeIt(fn: () => unknown, opts: { warmupMs?: number; minMs?: num
   const w0 = performance.now();
   while (performance.now() - w0 < warmupMs) consume(fn());
   const samples: number[] = [];
+  const cpu: number[] = [];
   let total = 0;
   while ((samples.length < minIterations || total < minMs) && samples.length < maxIterations) {
+    const c0 = process.cpuUsage();
     const t0 = performance.now();
     consume(fn());
     const dt = performance.now() - t0;
+    const c = process.cpuUsage(c0);
     samples.push(dt);
+    cpu.push((c.user + c.system) / 1000);
     total += dt;
   }
   samples.sort((a, b) => a - b);
-  return { medianMs: quantile(samples, 0.5), p95Ms: quantile(samples, 0.95), minMs: samples[0], iterations: samples.length };
+  cpu.sort((a, b) => a - b);
+  return { medianMs: quantile(samples, 0.5), p95Ms: quantile(samples, 0.95), minMs: samples[0], cpuMedianMs: quantile(cpu, 0.5), iterations: samples.length };
 }
 
 export const round = (x: number, digits = 3): number => (Number.isFinite(x) ? Number(x.toPrecision(digits + 1)) : x);
