@@ -5,9 +5,11 @@ import type { Ctx } from './context';
 import { healthRoutes } from './health/health.routes';
 import type { RouteDef } from './http/route-table';
 import { settingsRoutes } from './settings/settings.routes';
+import { templateRoutes } from './templates/templates.routes';
+import { tubeTypeRoutes } from './tube-types/tube-types.routes';
 import { adminRoutes } from './users/users.routes';
 import type pg from 'pg';
 
 export function buildRouteTable(ctx: Ctx, pool: pg.Pool): RouteDef[] {
-  return [...healthRoutes(pool), ...authRoutes(ctx), ...adminRoutes(ctx), ...settingsRoutes(ctx), ...calcRoutes(ctx.config)];
+  return [...healthRoutes(pool), ...authRoutes(ctx), ...adminRoutes(ctx), ...settingsRoutes(ctx), ...calcRoutes(ctx.config), ...tubeTypeRoutes(ctx), ...templateRoutes(ctx)];
 }
