@@ -7,14 +7,38 @@ import request from 'supertest';
 import type { Role } from '../../schema/index';
 import { apiEnv, bearer, makeUser, randomIp, userSession, type Session } from '../support/api-env';
 import { freshCredentials, liveInvitationToken, liveRefreshToken, liveResetToken } from '../support/api-fixtures';
+import { makeTemplate, makeTubeType, sampleDocument, specTube, uniqueDesignation } from '../support/template-fixtures';
 
 type Caller = 'anonymous' | Role;
 const CALLERS: Caller[] = ['anonymous', 'admin', 'author', 'technician', 'instructor', 'student'];
-type Expect = 'ok' | 401 | 403 | 404;
+type Plain = 'ok' | 401 | 403 | 404;
+/**
+ * Object-level access: the answer when the object (a template, a tube type) is the caller's own,
+ * and when it is someone else's (a private one, for templates). The request is sent twice.
+ */
+interface Owned {
+  own: Plain;
+  others: Plain;
+}
+type Expect = Plain | Owned;
+const flat = (e: Expect): Plain[] => (typeof e === 'object' ? [e.own, e.others] : [e]);
+const show = (e: Expect) => (typeof e === 'object' ? `own ${e.own}/others ${e.others}` : String(e));
 
 const ALL_OK: Record<Caller, Expect> = { anonymous: 'ok', admin: 'ok', author: 'ok', technician: 'ok', instructor: 'ok', student: 'ok' };
 const SIGNED_IN: Record<Caller, Expect> = { ...ALL_OK, anonymous: 401 };
 const ADMIN_ONLY: Record<Caller, Expect> = { anonymous: 401, admin: 'ok', author: 403, technician: 403, instructor: 403, student: 403 };
+const AUTHOR_ADMIN: Record<Caller, Expect> = { anonymous: 401, admin: 'ok', author: 'ok', technician: 403, instructor: 403, student: 403 };
+/** Reads of a template (and copies, corrections): the owner and admins; someone else's private one is a 404. */
+const SEE_TEMPLATE: Record<Caller, Expect> = {
+  anonymous: 401,
+  admin: { own: 'ok', others: 'ok' },
+  author: { own: 'ok', others: 404 },
+  technician: { own: 'ok', others: 404 },
+  instructor: { own: 'ok', others: 404 },
+  student: { own: 'ok', others: 404 },
+};
+/** The owner's writes (draft, publish, retire, sharing, decisions): an admin can see but may not (403). */
+const OWNER_WRITES: Record<Caller, Expect> = { ...SEE_TEMPLATE, admin: { own: 'ok', others: 403 } };
 
 /** Hand-written expectations, one row per route. */
 const MATRIX: Record<string, Record<Caller, Expect>> = {
@@ -42,11 +66,37 @@ const MATRIX: Record<string, Record<Caller, Expect>> = {
   'POST /api/calc/verdict': ALL_OK,
   'POST /api/calc/network': ALL_OK,
   'POST /api/calc/dissipation': ALL_OK,
+  'GET /api/tube-types': SIGNED_IN,
+  'GET /api/tube-types/:designation': SIGNED_IN,
+  'POST /api/tube-types': AUTHOR_ADMIN,
+  'PUT /api/tube-types/:designation': { ...AUTHOR_ADMIN, admin: { own: 'ok', others: 'ok' }, author: { own: 'ok', others: 403 } },
+  'GET /api/schemas/template.json': ALL_OK,
+  'GET /api/templates': SIGNED_IN,
+  'POST /api/templates': AUTHOR_ADMIN,
+  'POST /api/templates/import': AUTHOR_ADMIN,
+  'GET /api/templates/:id': SEE_TEMPLATE,
+  'GET /api/templates/:id/draft': SEE_TEMPLATE,
+  'PUT /api/templates/:id/draft': OWNER_WRITES,
+  'GET /api/templates/:id/versions/:version': SEE_TEMPLATE,
+  'PUT /api/templates/:id/versions/:version': OWNER_WRITES,
+  'POST /api/templates/:id/publish': OWNER_WRITES,
+  'POST /api/templates/:id/versions/:number/retire': OWNER_WRITES,
+  'GET /api/templates/:id/diff': SEE_TEMPLATE,
+  'GET /api/templates/:id/export': SEE_TEMPLATE,
+  'POST /api/templates/:id/copy': SEE_TEMPLATE,
+  'PUT /api/templates/:id/sharing': OWNER_WRITES,
+  'POST /api/templates/:id/corrections': SEE_TEMPLATE,
+  'GET /api/templates/:id/corrections': SEE_TEMPLATE,
+  'POST /api/templates/:id/corrections/:correctionId/decision': OWNER_WRITES,
 };
 
 type Agent = ReturnType<typeof request>;
-/** Sends a valid request for the route (fresh data each time) with the caller's headers. */
-const REQUESTS: Record<string, (a: Agent, h: Record<string, string>) => Promise<request.Response>> = {
+/**
+ * Sends a valid request for the route (fresh data each time) with the caller's headers. `ownerId`
+ * (object-level rows) is whose object to build: the caller's for `own`, another user's for
+ * `others`; absent, the object belongs to a fresh author.
+ */
+const REQUESTS: Record<string, (a: Agent, h: Record<string, string>, ownerId?: number) => Promise<request.Response>> = {
   'GET /api/health': async (a, h) => a.get('/api/health').set(h),
   'POST /api/auth/sign-in': async (a, h) => a.post('/api/auth/sign-in').set(h).set('X-Forwarded-For', randomIp()).send(await freshCredentials()),
   'POST /api/auth/refresh': async (a, h) => a.post('/api/auth/refresh').set(h).send({ refreshToken: await liveRefreshToken() }),
@@ -71,6 +121,45 @@ const REQUESTS: Record<string, (a: Agent, h: Record<string, string>) => Promise<
   'POST /api/calc/verdict': async (a, h) => a.post('/api/calc/verdict').set(h).send({ expected: 4700, reading: '4k9', tolerancePct: 10 }),
   'POST /api/calc/network': async (a, h) => a.post('/api/calc/network').set(h).send({ edges: [{ id: 'R1', a: 'A', b: 'B', ohms: 1000 }], from: 'A', to: 'B' }),
   'POST /api/calc/dissipation': async (a, h) => a.post('/api/calc/dissipation').set(h).send({ ohms: 1000, volts: 10 }),
+  'GET /api/tube-types': async (a, h) => a.get('/api/tube-types?q=SPEC').set(h),
+  'GET /api/tube-types/:designation': async (a, h) => a.get(`/api/tube-types/${await specTube()}`).set(h),
+  'POST /api/tube-types': async (a, h) =>
+    a.post('/api/tube-types').set(h).send({ designation: uniqueDesignation(), base: 'noval', heating: 'indirect', heaterVolts: 6.3, heaterAmps: 0.3, pins: [{ pin: 4, electrode: 'h', label: 'heater' }, { pin: 5, electrode: 'h', label: 'heater' }] }),
+  'PUT /api/tube-types/:designation': async (a, h, ownerId) =>
+    a.put(`/api/tube-types/${await makeTubeType(ownerId)}`).set(h).send({ base: 'noval', heating: 'indirect', heaterVolts: 6.3, heaterAmps: 0.3, pins: [{ pin: 4, electrode: 'h', label: 'heater' }, { pin: 5, electrode: 'h', label: 'heater' }] }),
+  'GET /api/schemas/template.json': async (a, h) => a.get('/api/schemas/template.json').set(h),
+  'GET /api/templates': async (a, h) => a.get('/api/templates?sort=updated&pageSize=5').set(h),
+  'POST /api/templates': async (a, h) => a.post('/api/templates').set(h).send({ chassis: { maker: 'Matrix Radio Co.', model: 'Probe', kind: 'portable', power: 'battery' } }),
+  'POST /api/templates/import': async (a, h) => a.post('/api/templates/import').set(h).send({ document: sampleDocument(await specTube()) }),
+  'GET /api/templates/:id': async (a, h, ownerId) => a.get(`/api/templates/${(await makeTemplate({ ownerId })).id}`).set(h),
+  'GET /api/templates/:id/draft': async (a, h, ownerId) => a.get(`/api/templates/${(await makeTemplate({ ownerId })).id}/draft`).set(h),
+  'PUT /api/templates/:id/draft': async (a, h, ownerId) => {
+    const t = await makeTemplate({ ownerId });
+    return a.put(`/api/templates/${t.id}/draft`).set(h).send({ revision: 1, content: t.doc });
+  },
+  'GET /api/templates/:id/versions/:version': async (a, h, ownerId) => a.get(`/api/templates/${(await makeTemplate({ ownerId, published: 1 })).id}/versions/1`).set(h),
+  'PUT /api/templates/:id/versions/:version': async (a, h, ownerId) => {
+    const t = await makeTemplate({ ownerId });
+    return a.put(`/api/templates/${t.id}/versions/draft`).set(h).send({ revision: 1, content: t.doc });
+  },
+  'POST /api/templates/:id/publish': async (a, h, ownerId) => a.post(`/api/templates/${(await makeTemplate({ ownerId })).id}/publish`).set(h).send({ changelog: 'First issue' }),
+  'POST /api/templates/:id/versions/:number/retire': async (a, h, ownerId) =>
+    a.post(`/api/templates/${(await makeTemplate({ ownerId, published: 1 })).id}/versions/1/retire`).set(h).send({ reason: 'Superseded' }),
+  'GET /api/templates/:id/diff': async (a, h, ownerId) => a.get(`/api/templates/${(await makeTemplate({ ownerId, published: 2 })).id}/diff?from=1&to=2`).set(h),
+  'GET /api/templates/:id/export': async (a, h, ownerId) => a.get(`/api/templates/${(await makeTemplate({ ownerId, published: 1 })).id}/export?version=1`).set(h),
+  'POST /api/templates/:id/copy': async (a, h, ownerId) => a.post(`/api/templates/${(await makeTemplate({ ownerId, published: 1 })).id}/copy`).set(h).send({ version: 1 }),
+  'PUT /api/templates/:id/sharing': async (a, h, ownerId) => a.put(`/api/templates/${(await makeTemplate({ ownerId })).id}/sharing`).set(h).send({ visibility: 'public', userIds: [] }),
+  'POST /api/templates/:id/corrections': async (a, h, ownerId) =>
+    a
+      .post(`/api/templates/${(await makeTemplate({ ownerId, published: 1 })).id}/corrections`)
+      .set(h)
+      .send({ versionNumber: 1, target: { kind: 'component', key: 'c-r1' }, change: { tolerancePct: 10 }, note: 'Silver band.' }),
+  'GET /api/templates/:id/corrections': async (a, h, ownerId) => a.get(`/api/templates/${(await makeTemplate({ ownerId, published: 1 })).id}/corrections`).set(h),
+  'POST /api/templates/:id/corrections/:correctionId/decision': async (a, h, ownerId) => {
+    const owner = ownerId ?? (await makeUser(['author'])).id;
+    const t = await makeTemplate({ ownerId: owner, published: 1, correctionBy: owner });
+    return a.post(`/api/templates/${t.id}/corrections/${t.correctionId}/decision`).set(h).send({ decision: 'accept', note: 'Agreed.' });
+  },
 };
 
 describe('Access matrix', () => {
@@ -91,17 +180,22 @@ describe('Access matrix', () => {
   });
 
   for (const [route, expected] of Object.entries(MATRIX)) {
-    it(`${route}: ${CALLERS.map((c) => `${c} ${expected[c]}`).join(', ')}`, async () => {
+    it(`${route}: ${CALLERS.map((c) => `${c} ${show(expected[c])}`).join(', ')}`, async () => {
       const env = await apiEnv();
-      expect(Object.values(expected)).withContext('every row has a permitted caller (the positive twin)').toContain('ok');
+      expect(Object.values(expected).flatMap(flat)).withContext('every row has a permitted caller (the positive twin)').toContain('ok');
       for (const caller of CALLERS) {
         const s = sessions.get(caller);
-        const r = await REQUESTS[route](request(env.app), s ? bearer(s) : {});
-        const want = expected[caller];
-        if (want === 'ok') expect(r.status).withContext(`${caller} → ${JSON.stringify(r.body).slice(0, 200)}`).toBeLessThan(300);
-        else {
-          expect(r.status).withContext(caller).toBe(want);
-          expect(r.body.error?.code).withContext(caller).toBeDefined();
+        const e = expected[caller];
+        const runs: [string, Plain, number | undefined][] =
+          typeof e === 'object' ? [['own', e.own, s!.user.id], ['others', e.others, (await makeUser(['author'])).id]] : [['', e, undefined]];
+        for (const [whose, want, ownerId] of runs) {
+          const label = whose ? `${caller} (${whose})` : caller;
+          const r = await REQUESTS[route](request(env.app), s ? bearer(s) : {}, ownerId);
+          if (want === 'ok') expect(r.status).withContext(`${label} → ${JSON.stringify(r.body).slice(0, 200)}`).toBeLessThan(300);
+          else {
+            expect(r.status).withContext(label).toBe(want);
+            expect(r.body.error?.code).withContext(label).toBeDefined();
+          }
         }
       }
     });
