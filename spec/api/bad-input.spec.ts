@@ -7,6 +7,7 @@ import request from 'supertest';
 import { apiEnv, bearer, makeUser, randomIp, userSession, type Session } from '../support/api-env';
 import { freshCredentials, liveInvitationToken, liveRefreshToken, liveResetToken } from '../support/api-fixtures';
 import { tableState } from '../support/table-state';
+import { makeTemplate, makeTubeType, sampleDocument, specTube, uniqueDesignation, withR2Tolerance } from '../support/template-fixtures';
 
 type Body = Record<string, unknown>;
 interface WriteRoute {
@@ -16,16 +17,36 @@ interface WriteRoute {
   auth: 'none' | 'admin';
   /** Fields the route may go without. */
   optional?: string[];
+  /** The caller who owns the object the route writes (their headers replace `auth`'s); called before `valid` and `path`. */
+  caller?: () => Promise<Session>;
 }
 
 /** Free text that may legitimately hold quotes and SQL-looking words (stored verbatim, never run). */
-const FREE_TEXT = ['password', 'name'];
+const FREE_TEXT = ['password', 'name', 'note', 'changelog', 'reason'];
 /** Fields that take text or a number alike. */
 const TEXT_OR_NUMBER = ['reading'];
 /** Secrets: any printable character goes. */
 const SECRETS = ['password'];
 
 const unique = (label: string) => `${label}-${Math.random().toString(36).slice(2)}@spec.example`;
+
+/**
+ * A route that writes an object of its caller's own (a template): `caller` makes the owner,
+ * `build` the object and the valid body, `path` the address; they share the row's state.
+ */
+function owned(method: WriteRoute['method'], build: (owner: Session) => Promise<{ path: string; body: Body }>, optional?: string[]): WriteRoute {
+  let owner: Session;
+  let built: { path: string; body: Body };
+  return {
+    method,
+    auth: 'none',
+    optional,
+    caller: async () => (owner = await userSession(['author'])),
+    valid: async () => (built = await build(owner)).body,
+    path: async () => built.path,
+  };
+}
+const tubeRecord = () => ({ base: 'noval', heating: 'indirect', heaterVolts: 6.3, heaterAmps: 0.3, pins: [{ pin: 4, electrode: 'h', label: 'heater' }, { pin: 5, electrode: 'h', label: 'heater' }] });
 
 const ROUTES: Record<string, WriteRoute> = {
   'POST /api/auth/sign-in': { method: 'post', path: async () => '/api/auth/sign-in', valid: async () => freshCredentials(), auth: 'none' },
@@ -77,6 +98,47 @@ const ROUTES: Record<string, WriteRoute> = {
     optional: ['readingOhms'],
   },
   'POST /api/calc/dissipation': { method: 'post', path: async () => '/api/calc/dissipation', valid: async () => ({ ohms: 100000, volts: 150 }), auth: 'none', optional: ['volts'] },
+  'POST /api/tube-types': { method: 'post', path: async () => '/api/tube-types', valid: async () => ({ designation: uniqueDesignation(), ...tubeRecord() }), auth: 'admin' },
+  'PUT /api/tube-types/:designation': { method: 'put', path: async () => `/api/tube-types/${await makeTubeType()}`, valid: async () => tubeRecord(), auth: 'admin' },
+  'POST /api/templates': {
+    method: 'post',
+    path: async () => '/api/templates',
+    valid: async () => ({ chassis: { maker: 'Bad Input Radio', model: 'Probe 1', kind: 'console', power: 'transformer' } }),
+    auth: 'admin',
+  },
+  'POST /api/templates/import': { method: 'post', path: async () => '/api/templates/import', valid: async () => ({ document: sampleDocument(await specTube()) }), auth: 'admin' },
+  'PUT /api/templates/:id/draft': owned('put', async (o) => {
+    const t = await makeTemplate({ ownerId: o.user.id });
+    return { path: `/api/templates/${t.id}/draft`, body: { revision: 1, content: withR2Tolerance(t.doc, 5) } };
+  }),
+  'PUT /api/templates/:id/versions/:version': owned('put', async (o) => {
+    const t = await makeTemplate({ ownerId: o.user.id });
+    return { path: `/api/templates/${t.id}/versions/draft`, body: { revision: 1, content: withR2Tolerance(t.doc, 5) } };
+  }),
+  'POST /api/templates/:id/publish': owned('post', async (o) => ({ path: `/api/templates/${(await makeTemplate({ ownerId: o.user.id })).id}/publish`, body: { changelog: 'First issue' } })),
+  'POST /api/templates/:id/versions/:number/retire': owned('post', async (o) => ({
+    path: `/api/templates/${(await makeTemplate({ ownerId: o.user.id, published: 1 })).id}/versions/1/retire`,
+    body: { reason: 'Superseded by version 2' },
+  })),
+  'POST /api/templates/:id/copy': { method: 'post', path: async () => `/api/templates/${(await makeTemplate({ published: 1 })).id}/copy`, valid: async () => ({ version: 1 }), auth: 'admin' },
+  'PUT /api/templates/:id/sharing': owned('put', async (o) => ({
+    path: `/api/templates/${(await makeTemplate({ ownerId: o.user.id })).id}/sharing`,
+    body: { visibility: 'shared', userIds: [(await makeUser(['technician'])).id] },
+  })),
+  'POST /api/templates/:id/corrections': {
+    method: 'post',
+    path: async () => `/api/templates/${(await makeTemplate({ published: 1 })).id}/corrections`,
+    valid: async () => ({ versionNumber: 1, target: { kind: 'component', key: 'c-r2' }, change: { tolerancePct: 5 }, note: 'The sheet gives 5 %.' }),
+    auth: 'admin',
+  },
+  'POST /api/templates/:id/corrections/:correctionId/decision': owned(
+    'post',
+    async (o) => {
+      const t = await makeTemplate({ ownerId: o.user.id, published: 1, correctionBy: o.user.id });
+      return { path: `/api/templates/${t.id}/corrections/${t.correctionId}/decision`, body: { decision: 'accept', note: 'Agreed.' } };
+    },
+    ['note'],
+  ),
 };
 
 /** Malformed variants of a valid body: each says what is wrong with it. */
@@ -136,7 +198,7 @@ describe('Bad input on every write route', () => {
   for (const [name, route] of Object.entries(ROUTES)) {
     it(`${name}: malformed requests get a 4xx with the error body and change nothing; the valid twin succeeds`, async () => {
       const env = await apiEnv();
-      const headers: Record<string, string> = route.auth === 'admin' ? bearer(admin) : {};
+      const headers: Record<string, string> = route.caller ? bearer(await route.caller()) : route.auth === 'admin' ? bearer(admin) : {};
       const valid = await route.valid();
       const path = await route.path();
       const cases = malformedBodies(valid, route.optional);
