@@ -1,6 +1,7 @@
 /**
- * Demo data: an invented scenario. Accounts here; chassis, sets and the class arrive with the
- * issues that build them. Refuses to create demo accounts when NODE_ENV=production.
+ * Demo data: an invented scenario. Accounts here, the tube types and chassis templates in
+ * seeds/templates.ts; sets and the class arrive with the issues that build them. Refuses to
+ * create demo accounts when NODE_ENV=production.
  */
 import bcrypt from 'bcrypt';
 import { count, sql } from 'drizzle-orm';
@@ -8,6 +9,7 @@ import { parseArgs } from 'node:util';
 import { createDatabase } from '../api/db';
 import type { Db } from '../api/db';
 import { users, type Role } from '../schema/index';
+import { seedDemoTemplates } from './templates';
 
 export const DEMO_PASSWORD = 'driftmark-demo';
 
@@ -21,7 +23,7 @@ export const DEMO_ACCOUNTS: { email: string; name: string; roles: Role[] }[] = [
 
 export class SeedRefused extends Error {}
 
-/** Seeds the demo accounts when the users table is empty. Returns how many were created. */
+/** Seeds the demo accounts, tube types and templates when the users table is empty. Returns how many accounts were created. */
 export async function seedDemo(db: Db, env: NodeJS.ProcessEnv = process.env): Promise<number> {
   const [{ n }] = await db.select({ n: count() }).from(users);
   if (n > 0) return 0;
@@ -33,6 +35,7 @@ export async function seedDemo(db: Db, env: NodeJS.ProcessEnv = process.env): Pr
   }
   const passwordHash = await bcrypt.hash(DEMO_PASSWORD, 11);
   await db.insert(users).values(DEMO_ACCOUNTS.map((a) => ({ ...a, passwordHash })));
+  await seedDemoTemplates(db);
   return DEMO_ACCOUNTS.length;
 }
 

@@ -98,6 +98,7 @@ export function ruleProblems(doc: TemplateDocument, tubeTypes: ReadonlyMap<strin
       else if (parsed.state !== 'value' || parsed.ohms === null) problem(`${p}.nominal.text`, `"${x.nominal.text}" is a state, not a value: write the nominal as { "state": … }.`);
       else if (Math.abs(parsed.ohms - x.nominal.ohms) > 1e-9 * x.nominal.ohms) problem(`${p}.nominal.text`, `"${x.nominal.text}" reads ${parsed.display}, which is not the nominal's ${x.nominal.ohms} Ω.`);
     }
+    if (x.kind === 'wire' && !('state' in x.nominal && x.nominal.state === 'short')) problem(`${p}.nominal`, 'a wire is a 0-Ω link: its nominal is { "state": "short" }.');
     if (x.kind === 'capacitor' && !x.capacitor) problem(`${p}.capacitor`, 'is required for a capacitor (µF, working volts, dielectric …).');
     if (x.kind !== 'capacitor' && x.capacitor) problem(`${p}.capacitor`, 'only a component of kind capacitor carries capacitor data.');
     if (x.capacitor?.can) checkNode(x.capacitor.can.commonReturn, `${p}.capacitor.can.commonReturn`);

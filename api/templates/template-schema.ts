@@ -9,8 +9,8 @@
  * in the branch that applies.
  */
 import { Ajv, type ErrorObject } from 'ajv';
-import { CHASSIS_KINDS, DIELECTRICS, POWER_ARRANGEMENTS, SAFETY_CLASSES, SOURCE_DOCUMENT_KINDS, TEMPLATE_FORMAT, TEMPLATE_FORMAT_VERSION, type TemplateProblem } from '../domain/template-format';
-import { COMPONENT_KINDS, VALUE_SOURCES } from '../domain/words';
+import { CHASSIS_KINDS, DIELECTRICS, POWER_ARRANGEMENTS, SAFETY_CLASSES, SOURCE_DOCUMENT_KINDS, TEMPLATE_COMPONENT_KINDS, TEMPLATE_FORMAT, TEMPLATE_FORMAT_VERSION, type TemplateProblem } from '../domain/template-format';
+import { VALUE_SOURCES } from '../domain/words';
 
 /** The largest resistance a template takes (1 TΩ), as the calculation API. */
 export const MAX_OHMS = 1e12;
@@ -71,7 +71,7 @@ const capacitor = object({
 const component = object({
   key: key('c'),
   ref: { type: 'string', pattern: '^[A-Za-z][A-Za-z0-9.+/-]{0,15}$' },
-  kind: { type: 'string', enum: [...COMPONENT_KINDS] },
+  kind: { type: 'string', enum: [...TEMPLATE_COMPONENT_KINDS] },
   stageKey: key('st'),
   nodes: { type: 'array', items: node, minItems: 2, maxItems: 2 },
   wiper: { type: ['object', 'null'], properties: { node, fraction: { type: 'number', minimum: 0, maximum: 1 } }, required: ['node', 'fraction'], additionalProperties: false },
