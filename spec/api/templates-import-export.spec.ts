@@ -8,11 +8,13 @@ import { count, eq } from 'drizzle-orm';
 import request from 'supertest';
 import { chassisTemplates, templateVersions } from '../../schema/index';
 import { apiEnv, bearer, userSession, type Session } from '../support/api-env';
+
+type Caller = Session & { id: number };
 import { makeTemplate, sampleDocument, specTube } from '../support/template-fixtures';
 
 describe('Template import and export', () => {
-  let author: Session;
-  let tech: Session;
+  let author: Caller;
+  let tech: Caller;
   beforeAll(async () => {
     author = await userSession(['author']);
     tech = await userSession(['technician']);

@@ -5,13 +5,15 @@ import request from 'supertest';
 import { chassisTemplates } from '../../schema/index';
 import type { ChassisKind } from '../../api/domain/template-format';
 import { apiEnv, bearer, makeUser, signIn, userSession, type Session } from '../support/api-env';
+
+type Caller = Session & { id: number };
 import { makeTubeType, sampleDocument, specTube } from '../support/template-fixtures';
 
 describe('Template library', () => {
   const tok = randomBytes(5).toString('hex');
-  let author: Session;
-  let other: Session;
-  let viewer: Session;
+  let author: Caller;
+  let other: Caller;
+  let viewer: Caller;
   let secondTube: string;
   const ids: Record<string, number> = {};
 
@@ -39,9 +41,9 @@ describe('Template library', () => {
 
   beforeAll(async () => {
     const a = await makeUser(['author'], { name: `Orla Fenwick ${tok}` });
-    author = { ...(await signIn(a.email)), id: a.id } as Session & { id: number };
+    author = { ...(await signIn(a.email)), id: a.id };
     const b = await makeUser(['author'], { name: `Piet Marlowe ${tok}` });
-    other = { ...(await signIn(b.email)), id: b.id } as Session & { id: number };
+    other = { ...(await signIn(b.email)), id: b.id };
     viewer = await userSession(['technician']);
     secondTube = await makeTubeType();
     await add('alpha', author, { maker: `Arlen ${tok}`, model: 'Alpha Deluxe', chassisNumber: 'AR-100', kind: 'table-radio', uses: 5 });

@@ -3,12 +3,14 @@ import { eq } from 'drizzle-orm';
 import request from 'supertest';
 import { templateShares } from '../../schema/index';
 import { apiEnv, bearer, makeUser, userSession, type Session } from '../support/api-env';
+
+type Caller = Session & { id: number };
 import { makeTemplate } from '../support/template-fixtures';
 
 describe('Template sharing', () => {
-  let owner: Session;
-  let friend: Session;
-  let stranger: Session;
+  let owner: Caller;
+  let friend: Caller;
+  let stranger: Caller;
   beforeAll(async () => {
     owner = await userSession(['author']);
     friend = await userSession(['technician']);

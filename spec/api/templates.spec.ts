@@ -7,12 +7,14 @@ import { and, eq, sql } from 'drizzle-orm';
 import request from 'supertest';
 import { chassisTemplates, templateCorrections, templateVersions } from '../../schema/index';
 import { apiEnv, bearer, userSession, type Session } from '../support/api-env';
+
+type Caller = Session & { id: number };
 import { makeTemplate, sampleDocument, specTube, withR2Tolerance } from '../support/template-fixtures';
 
 describe('Chassis templates', () => {
-  let author: Session;
-  let tech: Session;
-  let admin: Session;
+  let author: Caller;
+  let tech: Caller;
+  let admin: Caller;
   beforeAll(async () => {
     author = await userSession(['author']);
     tech = await userSession(['technician']);

@@ -3,13 +3,15 @@ import { eq } from 'drizzle-orm';
 import request from 'supertest';
 import { tubeTypes } from '../../schema/index';
 import { apiEnv, bearer, userSession, type Session } from '../support/api-env';
+
+type Caller = Session & { id: number };
 import { TRIODE_PINS, uniqueDesignation } from '../support/template-fixtures';
 
 describe('Tube types', () => {
-  let author: Session;
-  let otherAuthor: Session;
-  let tech: Session;
-  let admin: Session;
+  let author: Caller;
+  let otherAuthor: Caller;
+  let tech: Caller;
+  let admin: Caller;
   beforeAll(async () => {
     author = await userSession(['author']);
     otherAuthor = await userSession(['author']);
