@@ -33,23 +33,32 @@ export async function startServer(opts: { config: AppConfig; databaseUrl: string
     from: config.mailFrom,
     onError: (err) => log.warn({ err: err.message }, 'mail queue error'),
   });
-  const app = createApp({ config, database, outbox: mail, log });
+  // Listen first, then build the app with the port actually bound (PORT=0 picks a free one), so
+  // links in mail name the right address.
   const server = config.tls
-    ? createHttpsServer({ cert: readFileSync(config.tls.certFile), key: readFileSync(config.tls.keyFile) }, app)
-    : createHttpServer(app);
-  await new Promise<void>((resolve, reject) => {
-    server.once('error', (err: NodeJS.ErrnoException) => {
-      if (err.code === 'EADDRINUSE') reject(new PortInUseError(`Port ${config.port} on ${config.host} is already in use. Stop the other program or choose another port with PORT=<port>.`));
-      else reject(err);
+    ? createHttpsServer({ cert: readFileSync(config.tls.certFile), key: readFileSync(config.tls.keyFile) })
+    : createHttpServer();
+  try {
+    await new Promise<void>((resolve, reject) => {
+      server.once('error', (err: NodeJS.ErrnoException) => {
+        if (err.code === 'EADDRINUSE') reject(new PortInUseError(`Port ${config.port} on ${config.host} is already in use. Stop the other program or choose another port with PORT=<port>.`));
+        else reject(err);
+      });
+      server.listen(config.port, config.host, () => resolve());
     });
-    server.listen(config.port, config.host, () => resolve());
-  });
+  } catch (e) {
+    await mail.stop().catch(() => undefined);
+    await database.close().catch(() => undefined);
+    throw e;
+  }
   const port = (server.address() as AddressInfo).port;
-  const url = config.port === 0 ? linkBaseOf({ ...config, port }) : linkBaseOf({ ...config, publicBaseUrl: null });
+  const bound = { ...config, port };
+  server.on('request', createApp({ config: bound, database, outbox: mail, log }));
+  const url = linkBaseOf({ ...bound, publicBaseUrl: null });
   return {
     server,
     url,
-    config,
+    config: bound,
     async close() {
       await new Promise<void>((resolve) => {
         server.close(() => resolve());

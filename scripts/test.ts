@@ -8,12 +8,11 @@
  * built app and a real server).
  */
 import { spawn, spawnSync } from 'node:child_process';
-import { createHash } from 'node:crypto';
-import { existsSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { buildApp } from './app-build';
-import { ensurePostgresInstalled, isRoot, PROJECT_ROOT, recreateDatabase, startCluster, stopCluster, type Cluster } from './cluster';
+import { ensurePostgresInstalled, isRoot, portInUse, PROJECT_ROOT, recreateDatabase, startCluster, stopCluster, type Cluster } from './cluster';
 import { runMigrations } from './migrate';
 
 const ALL = ['types', 'domain', 'api', 'karma', 'e2e'] as const;
@@ -62,16 +61,20 @@ async function main(): Promise<void> {
   const env: NodeJS.ProcessEnv = { ...process.env, NODE_ENV: 'test', DRIFTMARK_COUNTS_FILE: countsFile, CHROME_BIN: CHROMIUM, NG_CLI_ANALYTICS: 'false' };
 
   let cluster: Cluster | null = null;
+  let testDataDir: string | null = null;
   const needsDb = parts.includes('api') || parts.includes('e2e');
   const needsChromium = parts.includes('karma') || parts.includes('e2e');
   try {
     if (needsDb) ensurePostgresInstalled((s) => say(s));
     if (needsChromium) ensureChromium();
     if (needsDb) {
-      // A throwaway cluster (fsync off): test data only, never a user's.
-      const key = createHash('sha256').update(PROJECT_ROOT).digest('hex').slice(0, 10);
-      const dataDir = join(tmpdir(), `driftmark-test-${key}`);
-      cluster = await startCluster({ dataDir, port: Number(process.env.DRIFTMARK_TEST_PG_PORT || 15433), throwaway: true, log: (s) => say(s) });
+      // A throwaway cluster of this run's own (fsync off): test data only, never a user's. Its own
+      // folder and the first free port from DRIFTMARK_TEST_PG_PORT, so two runs never share one.
+      testDataDir = mkdtempSync(join(tmpdir(), 'driftmark-test-'));
+      let port = Number(process.env.DRIFTMARK_TEST_PG_PORT || 15433);
+      while (await portInUse(port)) port++;
+      cluster = await startCluster({ dataDir: testDataDir, port, throwaway: true, log: (s) => say(s) });
+      const dataDir = testDataDir;
       env.DRIFTMARK_TEST_CLUSTER_URL = cluster.url;
       env.DRIFTMARK_TEST_DATA_DIR = dataDir;
     }
@@ -137,6 +140,7 @@ async function main(): Promise<void> {
         console.error(e);
       }
     }
+    if (testDataDir) rmSync(testDataDir, { recursive: true, force: true });
     rmSync(countsFile, { force: true });
   }
 

@@ -78,12 +78,14 @@ export async function refresh(ctx: Ctx, token: string): Promise<Session> {
   const hash = hashToken(token);
   const outcome = await ctx.db.transaction(async (tx) => {
     const row = await repo.findRefreshToken(tx, hash);
-    if (!row || row.revokedAt || row.expiresAt.getTime() <= Date.now()) return { kind: 'refused' as const };
+    if (!row) return { kind: 'refused' as const };
     const user = await repo.findUserById(tx, row.userId);
-    if (!user || !user.active) {
+    // A deactivated account is told so (its tokens were revoked when it was deactivated).
+    if (user && !user.active) {
       await repo.revokeFamily(tx, row.familyId);
-      return { kind: 'refused' as const };
+      return { kind: 'deactivated' as const };
     }
+    if (!user || row.revokedAt || row.expiresAt.getTime() <= Date.now()) return { kind: 'refused' as const };
     const successor = successorOf(ctx.config.jwtSecret, token);
     if (row.usedAt) {
       const age = (Date.now() - row.usedAt.getTime()) / 1000;
@@ -100,6 +102,7 @@ export async function refresh(ctx: Ctx, token: string): Promise<Session> {
     return { kind: 'rotated' as const, user, successor };
   });
   if (outcome.kind === 'refused') throw unauthorized('Your session has ended. Sign in again.', 'session-ended');
+  if (outcome.kind === 'deactivated') throw unauthorized('This account has been deactivated. Ask an administrator.', 'account-deactivated');
   if (outcome.kind === 'reused') throw unauthorized('This session was ended because its refresh token was used twice. Sign in again.', 'token-reused');
   return {
     accessToken: signAccessToken(ctx.config.jwtSecret, ctx.config.auth.accessTokenSeconds, outcome.user),

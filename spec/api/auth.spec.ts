@@ -100,7 +100,9 @@ describe('Sign-in, tokens and sign-out', () => {
     expect(patch.status).toBe(200);
     expect(patch.body.active).toBeFalse();
     expect((await request(env.app).get('/api/me').set(bearer(s))).status).toBe(401);
-    expect((await request(env.app).post('/api/auth/refresh').send({ refreshToken: s.refreshToken })).status).toBe(401);
+    const refreshed = await request(env.app).post('/api/auth/refresh').send({ refreshToken: s.refreshToken });
+    expect(refreshed.status).toBe(401);
+    expect(refreshed.body.error.code).toBe('account-deactivated');
     const again = await request(env.app).post('/api/auth/sign-in').set('X-Forwarded-For', randomIp()).send({ email: u.email, password: SPEC_PASSWORD });
     expect(again.status).toBe(401);
     expect(again.body.error.code).toBe('account-deactivated');

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import request from 'supertest';
 import { createApp } from '../../api/app';
 import { createDatabase } from '../../api/db';
-import { startCluster, stopCluster, type Cluster } from '../../scripts/cluster';
+import { portInUse, startCluster, stopCluster, type Cluster } from '../../scripts/cluster';
 import { apiEnv, testConfig } from '../support/api-env';
 
 describe('GET /api/health', () => {
@@ -19,7 +19,9 @@ describe('GET /api/health', () => {
     let cluster: Cluster;
     beforeAll(async () => {
       const dataDir = mkdtempSync(join(tmpdir(), 'driftmark-health-'));
-      cluster = await startCluster({ dataDir, port: Number(process.env.DRIFTMARK_HEALTH_PG_PORT || 15434), throwaway: true, log: () => undefined });
+      let port = Number(process.env.DRIFTMARK_HEALTH_PG_PORT || 15450);
+      while (await portInUse(port)) port++;
+      cluster = await startCluster({ dataDir, port, throwaway: true, log: () => undefined });
     }, 60_000);
     afterAll(() => stopCluster(cluster, 'immediate'));
 

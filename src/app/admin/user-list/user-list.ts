@@ -1,6 +1,7 @@
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
+import { BreakpointObserver } from '@angular/cdk/layout';
+import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
@@ -13,6 +14,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatTableModule } from '@angular/material/table';
 import { catchError, debounceTime, distinctUntilChanged, map, of, switchMap, tap } from 'rxjs';
 import { Auth } from '../../core/auth/auth';
+import { NARROW_QUERY } from '../../core/shell/shell';
 import { ROLE_LABELS, Role } from '../../core/auth/roles';
 import { AdminApi, AdminUser, InvitationSummary, UserPage } from '../admin-api';
 import { EditUserDialog } from '../edit-user-dialog/edit-user-dialog';
@@ -42,7 +44,9 @@ export class UserList {
   private readonly snackBar = inject(MatSnackBar);
   private readonly auth = inject(Auth);
 
-  protected readonly columns = ['name', 'email', 'roles', 'status', 'actions'] as const;
+  /** On a phone, e-mail and roles move under the name so nothing hides in a side scroll. */
+  protected readonly narrow = toSignal(inject(BreakpointObserver).observe(NARROW_QUERY).pipe(map((s) => s.matches)), { initialValue: false });
+  protected readonly columns = computed(() => (this.narrow() ? ['name', 'status', 'actions'] : ['name', 'email', 'roles', 'status', 'actions']));
   protected readonly search = new FormControl('', { nonNullable: true });
   protected readonly pageIndex = signal(0);
   protected readonly pageSize = signal(25);

@@ -24,6 +24,14 @@ export class SessionEnded extends Error {
 }
 
 const EXPIRED_NOTICE = 'Your session has ended. Sign in again to continue.';
+export const DEACTIVATED_NOTICE = 'This account has been deactivated. Ask an administrator if you think it should not be.';
+
+/** The API's error code in an error response, if any. */
+export function errorCodeOf(err: unknown): string | null {
+  if (!(err instanceof HttpErrorResponse)) return null;
+  const body = err.error as { error?: { code?: unknown } } | null;
+  return typeof body?.error?.code === 'string' ? body.error.code : null;
+}
 
 /**
  * The signed-in session. The access token lives in memory only; the refresh token and the user
@@ -138,15 +146,17 @@ export class Auth {
         this.begin(session);
         return session.accessToken;
       } catch (err: unknown) {
-        if (err instanceof HttpErrorResponse && [400, 401, 403].includes(err.status)) throw this.ended();
+        if (err instanceof HttpErrorResponse && [400, 401, 403].includes(err.status)) {
+          throw this.ended(errorCodeOf(err) === 'account-deactivated' ? DEACTIVATED_NOTICE : EXPIRED_NOTICE);
+        }
         throw err;
       }
     };
     return locks ? locks.request(REFRESH_LOCK, run) : run();
   }
 
-  private ended(): SessionEnded {
-    this.endSession();
+  private ended(message = EXPIRED_NOTICE): SessionEnded {
+    this.endSession(message);
     return new SessionEnded();
   }
 

@@ -1,7 +1,7 @@
 import { HttpErrorResponse, HttpInterceptorFn, HttpRequest } from '@angular/common/http';
 import { inject } from '@angular/core';
 import { catchError, switchMap, throwError } from 'rxjs';
-import { Auth } from '../auth/auth';
+import { Auth, DEACTIVATED_NOTICE, errorCodeOf, SessionEnded } from '../auth/auth';
 
 /** Requests that get the bearer token: our own `/api/` paths, except the token-less auth ones. */
 export function needsBearer(url: string): boolean {
@@ -31,6 +31,11 @@ export const authToken: HttpInterceptorFn = (req, next) => {
     catchError((err: unknown) => {
       if (!(err instanceof HttpErrorResponse) || err.status !== 401 || !auth.hasRefreshToken()) {
         return throwError(() => err);
+      }
+      // A deactivated account cannot refresh: end the session with the reason, no retry.
+      if (errorCodeOf(err) === 'account-deactivated') {
+        auth.endSession(DEACTIVATED_NOTICE);
+        return throwError(() => new SessionEnded());
       }
       return auth.refresh().pipe(switchMap((fresh) => next(withToken(fresh))));
     }),
