@@ -435,7 +435,8 @@ export class ChassisNetwork {
     }
     const g = 1 / r;
     const ya = this.probeVector(sa, sb);
-    const yc = this.forward(sc, sd);
+    // A component check probes the part's own nodes: the same solve serves both vectors.
+    const yc = sc === sa && sd === sb ? ya : this.forward(sc, sd);
     const rab = this.quadratic(ya, ya);
     const rcd = this.quadratic(yc, yc);
     const t = this.quadratic(ya, yc);

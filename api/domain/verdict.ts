@@ -529,7 +529,9 @@ const fmt = (ohms: number): string => {
 const finiteOrNull = (x: number | null): number | null => (x !== null && Number.isFinite(x) ? x : null);
 
 function definedOnly<T extends object>(o: T): Partial<T> {
-  return Object.fromEntries(Object.entries(o).filter(([, v]) => v !== undefined)) as Partial<T>;
+  const out: Record<string, unknown> = {};
+  for (const k in o) if (o[k] !== undefined) out[k] = o[k];
+  return out as Partial<T>;
 }
 
 /** Judge one reading. Throws VerdictInputError for input it cannot judge. */
