@@ -16,12 +16,15 @@ import { apiNotFound, errorMiddleware } from './http/errors';
 import { mountRoutes, type RouteDef } from './http/route-table';
 import type { Outbox } from './mail/outbox';
 import { buildRouteTable } from './routes';
+import { storageFromConfig, type Storage } from './storage/index';
 
 export interface AppDeps {
   config: AppConfig;
   database: Database;
   outbox: Outbox;
   log?: Logger;
+  /** Where uploads live; by default what the settings say (a folder under the data folder). */
+  storage?: Storage;
 }
 
 /** The content security policy (decision recorded in DEVELOPERS.md). */
@@ -50,7 +53,7 @@ export function linkBaseOf(config: AppConfig): string {
 export function createApp(deps: AppDeps): Express & { routeTable: readonly RouteDef[] } {
   const { config, database } = deps;
   const log = deps.log ?? pino({ level: config.nodeEnv === 'test' ? 'silent' : 'info' });
-  const ctx: Ctx = { db: database.db, config, outbox: deps.outbox, linkBase: linkBaseOf(config) };
+  const ctx: Ctx = { db: database.db, config, outbox: deps.outbox, linkBase: linkBaseOf(config), storage: deps.storage ?? storageFromConfig(config) };
   const app = express() as Express & { routeTable: readonly RouteDef[] };
   app.set('trust proxy', config.trustProxy);
   app.disable('x-powered-by');

@@ -14,6 +14,10 @@ export interface AppConfig {
   smtpUrl: string | null;
   mailFrom: string;
   storage: 'fs' | 's3';
+  /** The bucket when STORAGE=s3 (every S3_* setting is required then), null otherwise. */
+  s3: { endpoint: string; bucket: string; region: string; accessKeyId: string; secretAccessKey: string } | null;
+  /** Uploads (template files): largest file in bytes, and largest decoded image in pixels. */
+  upload: { maxBytes: number; maxPixels: number };
   tls: { certFile: string; keyFile: string } | null;
   dataDir: string;
   jwtSecret: string;
@@ -95,6 +99,23 @@ export function loadConfig(env: NodeJS.ProcessEnv, opts: { dataDir: string; appD
   const storage = (env.STORAGE || 'fs') as AppConfig['storage'];
   if (!['fs', 's3'].includes(storage)) problems.push(`STORAGE must be fs or s3 (got "${env.STORAGE}")`);
 
+  let s3: AppConfig['s3'] = null;
+  if (storage === 's3') {
+    const names = ['S3_ENDPOINT', 'S3_BUCKET', 'S3_REGION', 'S3_ACCESS_KEY_ID', 'S3_SECRET_ACCESS_KEY'] as const;
+    const missing = names.filter((n) => !env[n]);
+    if (missing.length) problems.push(`STORAGE=s3 needs ${missing.join(', ')}`);
+    else {
+      try {
+        const u = new URL(env.S3_ENDPOINT!);
+        if (!['http:', 'https:'].includes(u.protocol)) throw new Error();
+      } catch {
+        problems.push(`S3_ENDPOINT must be an http(s) URL such as https://s3.eu-west-1.amazonaws.com (got "${env.S3_ENDPOINT}")`);
+      }
+      if (!/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/.test(env.S3_BUCKET!)) problems.push(`S3_BUCKET must be a bucket name (3–63 lower-case letters, digits, dots, hyphens; got "${env.S3_BUCKET}")`);
+      s3 = { endpoint: env.S3_ENDPOINT!, bucket: env.S3_BUCKET!, region: env.S3_REGION!, accessKeyId: env.S3_ACCESS_KEY_ID!, secretAccessKey: env.S3_SECRET_ACCESS_KEY! };
+    }
+  }
+
   let tls: AppConfig['tls'] = null;
   if (env.TLS_CERT || env.TLS_KEY) {
     if (!env.TLS_CERT || !env.TLS_KEY) problems.push('TLS_CERT and TLS_KEY go together: set both file paths, or neither');
@@ -126,6 +147,11 @@ export function loadConfig(env: NodeJS.ProcessEnv, opts: { dataDir: string; appD
     smtpUrl,
     mailFrom: env.MAIL_FROM || 'Driftmark <no-reply@driftmark.invalid>',
     storage,
+    s3,
+    upload: {
+      maxBytes: int(env, 'UPLOAD_MAX_BYTES', 20 * 1024 * 1024, 1024, 1024 * 1024 * 1024, problems),
+      maxPixels: int(env, 'UPLOAD_MAX_PIXELS', 40_000_000, 10_000, 1_000_000_000, problems),
+    },
     tls,
     dataDir: opts.dataDir,
     jwtSecret,

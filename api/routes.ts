@@ -2,6 +2,7 @@
 import { authRoutes } from './auth/auth.routes';
 import { calcRoutes } from './calc/calc.routes';
 import type { Ctx } from './context';
+import { fileRoutes } from './files/files.routes';
 import { healthRoutes } from './health/health.routes';
 import type { RouteDef } from './http/route-table';
 import { settingsRoutes } from './settings/settings.routes';
@@ -11,5 +12,5 @@ import { adminRoutes } from './users/users.routes';
 import type pg from 'pg';
 
 export function buildRouteTable(ctx: Ctx, pool: pg.Pool): RouteDef[] {
-  return [...healthRoutes(pool), ...authRoutes(ctx), ...adminRoutes(ctx), ...settingsRoutes(ctx), ...calcRoutes(ctx.config), ...tubeTypeRoutes(ctx), ...templateRoutes(ctx)];
+  return [...healthRoutes(pool), ...authRoutes(ctx), ...adminRoutes(ctx), ...settingsRoutes(ctx), ...calcRoutes(ctx.config), ...tubeTypeRoutes(ctx), ...templateRoutes(ctx), ...fileRoutes(ctx)];
 }

@@ -13,6 +13,7 @@ import { createApp, linkBaseOf } from './app';
 import { loadConfig, type AppConfig } from './config';
 import { createDatabase } from './db';
 import { startMailQueue } from './mail/outbox';
+import { storageFromConfig } from './storage/index';
 
 export interface RunningServer {
   server: Server;
@@ -53,7 +54,7 @@ export async function startServer(opts: { config: AppConfig; databaseUrl: string
   }
   const port = (server.address() as AddressInfo).port;
   const bound = { ...config, port };
-  server.on('request', createApp({ config: bound, database, outbox: mail, log }));
+  server.on('request', createApp({ config: bound, database, outbox: mail, log, storage: storageFromConfig(bound) }));
   const url = linkBaseOf({ ...bound, publicBaseUrl: null });
   return {
     server,

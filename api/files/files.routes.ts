@@ -1,0 +1,185 @@
+/**
+ * Routes of template files. Uploads are multipart (`file`, optional `stageKey`): the path and the
+ * content type are checked first (a 400 before any 401), then the sign-in and the owner check, and
+ * only then is the body read (multer, in memory, within UPLOAD_MAX_BYTES) — an anonymous caller or
+ * a non-owner never makes the server buffer a file.
+ *
+ * Served bytes: `nosniff` always; images and PDFs `inline`, anything else `attachment`; a
+ * content security policy of their own replaces the app's (see SERVE_POLICY).
+ */
+import type { JSONSchemaType } from 'ajv';
+import type { Request, RequestHandler } from 'express';
+import multer from 'multer';
+import { pipeline } from 'node:stream/promises';
+import type { Ctx } from '../context';
+import { badRequest } from '../http/errors';
+import type { RouteDef } from '../http/route-table';
+import { ajv, ID, validate } from '../http/validate';
+import * as files from './files.use-cases';
+import { contentDisposition, downloadName, IMAGE_TYPES, PDF } from './media';
+
+const STAGE_KEY = '^st-[A-Za-z0-9_-]{1,40}$';
+
+/**
+ * Policies for served files (they replace the app's policy on these responses):
+ * - images: `sandbox` (no script, no same origin, should a browser ever render them as a
+ *   document) and nothing loaded but the image itself;
+ * - PDFs: no `sandbox` — Chromium refuses to start its PDF viewer in a sandboxed document
+ *   (crbug.com/413851) — but nothing else may load; the viewer runs PDF script in its own isolated
+ *   process, away from our origin; `style-src 'unsafe-inline'` for the viewer's wrapper page
+ *   (crbug.com/271452), `object-src 'self'` for its embed;
+ * - `frame-ancestors 'self'` so the app's own viewer may frame them, and no one else.
+ */
+export const SERVE_POLICY = {
+  image: "sandbox; default-src 'none'; img-src 'self'; style-src 'unsafe-inline'; frame-ancestors 'self'",
+  pdf: "default-src 'none'; img-src 'self'; style-src 'unsafe-inline'; object-src 'self'; frame-ancestors 'self'",
+  other: "sandbox; default-src 'none'; frame-ancestors 'none'",
+};
+
+const INLINE_TYPES: readonly string[] = [...IMAGE_TYPES, PDF];
+
+interface UploadFields {
+  stageKey?: string;
+}
+const uploadFields = ajv.compile({
+  type: 'object',
+  properties: { stageKey: { type: 'string', pattern: STAGE_KEY } },
+  required: [],
+  additionalProperties: false,
+} as unknown as JSONSchemaType<UploadFields>);
+
+interface MoveBody {
+  stageKey: string | null;
+}
+const moveBody = {
+  type: 'object',
+  properties: { stageKey: { anyOf: [{ type: 'string', pattern: STAGE_KEY }, { type: 'null' }] } },
+  required: ['stageKey'],
+  additionalProperties: false,
+} as unknown as JSONSchemaType<MoveBody>;
+
+/** A multipart request, or a 400 before anything else. */
+const multipartOnly: RequestHandler = (req, _res, next) => {
+  if (!req.is('multipart/form-data')) throw badRequest('Send the file as multipart/form-data with the file in the field "file".', '(body)', 'not-multipart');
+  next();
+};
+
+const MULTER_MESSAGES: Record<string, (maxBytes: number, field?: string) => [string, string]> = {
+  LIMIT_FILE_SIZE: (max) => [`The file is larger than the limit of ${(max / 1024 / 1024).toFixed(max >= 1024 * 1024 ? 0 : 2)} MiB.`, 'file-too-large'],
+  LIMIT_UNEXPECTED_FILE: (_m, field) => [`Send the file in the field "file" (one file; got one in "${field ?? '?'}").`, 'unexpected-file-field'],
+  LIMIT_FILE_COUNT: () => ['Send one file per request.', 'too-many-files'],
+};
+
+/** multer in memory within the limits; its errors (and a broken body) become 400s naming `file`. */
+function uploadParser(ctx: Ctx): RequestHandler {
+  const max = ctx.config.upload.maxBytes;
+  const single = multer({
+    storage: multer.memoryStorage(),
+    limits: { fileSize: max, files: 1, fields: 4, parts: 6, fieldNameSize: 40, fieldSize: 200, headerPairs: 50 },
+  }).single('file');
+  return (req, res, next) => {
+    single(req, res, (err?: unknown) => {
+      if (!err) return next();
+      const e = err as Error & { code?: string; field?: string };
+      if (e instanceof multer.MulterError) {
+        const [message, code] = MULTER_MESSAGES[e.code]?.(max, e.field) ?? [`The upload was refused: ${e.message}.`, 'bad-multipart'];
+        return next(badRequest(message, e.code === 'LIMIT_UNEXPECTED_FILE' ? (e.field ?? 'file') : 'file', code));
+      }
+      // busboy: truncated body, a missing boundary, a malformed part header.
+      next(badRequest(`The multipart body cannot be read (${e.message}).`, '(body)', 'bad-multipart'));
+    });
+  };
+}
+
+const templateId = (req: Request) => Number(req.params.id);
+const fileId = (req: Request) => Number(req.params.fileId);
+
+export function fileRoutes(ctx: Ctx): RouteDef[] {
+  const ownerGate: RequestHandler = async (req, _res, next) => {
+    await files.checkCanUpload(ctx, req.signedIn!, templateId(req));
+    next();
+  };
+  const serve = (which: 'file' | 'thumbnail'): RequestHandler =>
+    async (req, res) => {
+      const { file, object } = await files.openFile(ctx, req.signedIn!, templateId(req), fileId(req), which);
+      const mediaType = which === 'thumbnail' ? object.mediaType : file.mediaType;
+      const inline = INLINE_TYPES.includes(mediaType);
+      res.setHeader('Content-Type', mediaType);
+      if (object.size !== null) res.setHeader('Content-Length', String(object.size));
+      res.setHeader('X-Content-Type-Options', 'nosniff');
+      res.setHeader('Content-Security-Policy', mediaType === PDF ? SERVE_POLICY.pdf : inline ? SERVE_POLICY.image : SERVE_POLICY.other);
+      res.setHeader('Content-Disposition', contentDisposition(inline ? 'inline' : 'attachment', which === 'thumbnail' ? `thumbnail-${downloadName(file.originalName, 'image/webp')}` : downloadName(file.originalName, mediaType)));
+      res.setHeader('Cache-Control', 'private, no-store');
+      await pipeline(object.body, res);
+    };
+
+  return [
+    {
+      method: 'post',
+      path: '/api/templates/:id/files',
+      access: 'signed-in',
+      summary: 'Upload a schematic or photo (multipart: file, optional stageKey) to the template or a stage (owner)',
+      validate: (req, res, next) => validate({ params: { id: ID } })(req, res, (err?: unknown) => (err ? next(err) : multipartOnly(req, res, next))),
+      before: [ownerGate, uploadParser(ctx)],
+      handler: async (req, res) => {
+        const fields: UploadFields = { ...(req.body as Record<string, string>) };
+        if (!uploadFields(fields)) {
+          const e = uploadFields.errors![0];
+          const field = e.keyword === 'additionalProperties' ? String((e.params as { additionalProperty: string }).additionalProperty) : 'stageKey';
+          throw badRequest(e.keyword === 'additionalProperties' ? `"${field}" is not a field this upload takes (file, stageKey).` : `"stageKey" must be a stage key such as st-audio.`, field, 'validation');
+        }
+        if (!req.file) throw badRequest('No file: send it in the multipart field "file".', 'file', 'no-file');
+        if (req.file.size === 0) throw badRequest('The file is empty.', 'file', 'empty-file');
+        const originalName = (req.file.originalname || 'file').replace(/[\u0000-\u001f\u007f]/g, '').slice(0, 200) || 'file';
+        res.status(201).json(await files.uploadFile(ctx, req.signedIn!, templateId(req), { bytes: req.file.buffer, originalName, stageKey: fields.stageKey }));
+      },
+    },
+    {
+      method: 'get',
+      path: '/api/templates/:id/files',
+      access: 'signed-in',
+      summary: 'The files of a template: stage, type, size, pixels, thumbnail address',
+      validate: validate({ params: { id: ID } }),
+      handler: async (req, res) => {
+        res.json(await files.listFiles(ctx, req.signedIn!, templateId(req)));
+      },
+    },
+    {
+      method: 'get',
+      path: '/api/templates/:id/files/:fileId',
+      access: 'signed-in',
+      summary: 'The bytes of a file: images and PDFs inline, anything else as an attachment (nosniff, sandboxing policy)',
+      validate: validate({ params: { id: ID, fileId: ID } }),
+      handler: serve('file'),
+    },
+    {
+      method: 'get',
+      path: '/api/templates/:id/files/:fileId/thumbnail',
+      access: 'signed-in',
+      summary: 'The thumbnail of an image file (WebP, at most 320 px)',
+      validate: validate({ params: { id: ID, fileId: ID } }),
+      handler: serve('thumbnail'),
+    },
+    {
+      method: 'patch',
+      path: '/api/templates/:id/files/:fileId',
+      access: 'signed-in',
+      summary: 'Move a file to a stage, or to the whole template with stageKey null (owner)',
+      validate: validate({ body: moveBody, params: { id: ID, fileId: ID } }),
+      handler: async (req, res) => {
+        res.json(await files.moveFile(ctx, req.signedIn!, templateId(req), fileId(req), req.body as MoveBody));
+      },
+    },
+    {
+      method: 'delete',
+      path: '/api/templates/:id/files/:fileId',
+      access: 'signed-in',
+      summary: 'Delete a file and its stored bytes (owner)',
+      validate: validate({ params: { id: ID, fileId: ID } }),
+      handler: async (req, res) => {
+        await files.deleteFile(ctx, req.signedIn!, templateId(req), fileId(req));
+        res.status(204).end();
+      },
+    },
+  ];
+}
