@@ -75,7 +75,7 @@ describe('Admin user management', () => {
     // Their next request, in their own page: signed out, on the sign-in page, with a message.
     await userNav.getByRole('link', { name: 'Settings' }).click();
     await user.page.waitForURL(/\/sign-in(\?|$)/);
-    await expectAsync(user.page.getByRole('status').filter({ hasText: 'Your session has ended' }).waitFor()).toBeResolved();
+    await expectAsync(user.page.getByRole('status').filter({ hasText: 'This account has been deactivated' }).waitFor()).toBeResolved();
     expect(await user.page.evaluate(() => localStorage.getItem('driftmark.refreshToken'))).toBeNull();
     expect(await user.page.getByRole('button', { name: 'Sign out' }).count()).toBe(0);
     expect(await user.page.getByRole('heading', { level: 1, name: 'Instance settings' }).count()).toBe(0);
