@@ -110,7 +110,13 @@ export function fileRoutes(ctx: Ctx): RouteDef[] {
       res.setHeader('Content-Security-Policy', mediaType === PDF ? SERVE_POLICY.pdf : inline ? SERVE_POLICY.image : SERVE_POLICY.other);
       res.setHeader('Content-Disposition', contentDisposition(inline ? 'inline' : 'attachment', which === 'thumbnail' ? `thumbnail-${downloadName(file.originalName, 'image/webp')}` : downloadName(file.originalName, mediaType)));
       res.setHeader('Cache-Control', 'private, no-store');
-      await pipeline(object.body, res);
+      try {
+        await pipeline(object.body, res);
+      } catch (e) {
+        // Headers are out: the client went away or the storage broke mid-stream; nothing to answer.
+        if (!res.headersSent) throw e;
+        res.destroy();
+      }
     };
 
   return [

@@ -3,7 +3,10 @@
  * are written here by hand, apart from the code's own permission rules. A route without a row
  * fails the suite. Each refusal stands beside the permitted request that succeeds in the same run.
  */
+import sharp from 'sharp';
 import request from 'supertest';
+import { uploadFile } from '../../api/files/files.use-cases';
+import { storageFromConfig } from '../../api/storage/index';
 import type { Role } from '../../schema/index';
 import { apiEnv, bearer, makeUser, randomIp, userSession, type Session } from '../support/api-env';
 import { freshCredentials, liveInvitationToken, liveRefreshToken, liveResetToken } from '../support/api-fixtures';
@@ -78,6 +81,7 @@ const MATRIX: Record<string, Record<Caller, Expect>> = {
   'GET /api/templates/:id/draft': SEE_TEMPLATE,
   'PUT /api/templates/:id/draft': OWNER_WRITES,
   'GET /api/templates/:id/versions/:version': SEE_TEMPLATE,
+  'GET /api/templates/:id/versions/:version/network': SEE_TEMPLATE,
   'PUT /api/templates/:id/versions/:version': OWNER_WRITES,
   'POST /api/templates/:id/publish': OWNER_WRITES,
   'POST /api/templates/:id/versions/:number/retire': OWNER_WRITES,
@@ -88,7 +92,22 @@ const MATRIX: Record<string, Record<Caller, Expect>> = {
   'POST /api/templates/:id/corrections': SEE_TEMPLATE,
   'GET /api/templates/:id/corrections': SEE_TEMPLATE,
   'POST /api/templates/:id/corrections/:correctionId/decision': OWNER_WRITES,
+  'POST /api/templates/:id/files': OWNER_WRITES,
+  'GET /api/templates/:id/files': SEE_TEMPLATE,
+  'GET /api/templates/:id/files/:fileId': SEE_TEMPLATE,
+  'GET /api/templates/:id/files/:fileId/thumbnail': SEE_TEMPLATE,
+  'PATCH /api/templates/:id/files/:fileId': OWNER_WRITES,
+  'DELETE /api/templates/:id/files/:fileId': OWNER_WRITES,
 };
+
+const smallPng = () => sharp({ create: { width: 8, height: 8, channels: 3, background: { r: 1, g: 2, b: 3 } } }).png().toBuffer();
+/** A template of `ownerId`'s with one image file, stored where the app under test keeps its files. */
+async function templateWithFile(ownerId?: number): Promise<{ id: number; fileId: number }> {
+  const env = await apiEnv();
+  const t = await makeTemplate({ ownerId });
+  const f = await uploadFile({ db: env.database.db, storage: storageFromConfig(env.config), config: env.config }, { id: t.ownerId, roles: ['author'] }, t.id, { bytes: await smallPng(), originalName: 'matrix.png' });
+  return { id: t.id, fileId: f.id };
+}
 
 type Agent = ReturnType<typeof request>;
 /**
@@ -138,6 +157,7 @@ const REQUESTS: Record<string, (a: Agent, h: Record<string, string>, ownerId?: n
     return a.put(`/api/templates/${t.id}/draft`).set(h).send({ revision: 1, content: t.doc });
   },
   'GET /api/templates/:id/versions/:version': async (a, h, ownerId) => a.get(`/api/templates/${(await makeTemplate({ ownerId, published: 1 })).id}/versions/1`).set(h),
+  'GET /api/templates/:id/versions/:version/network': async (a, h, ownerId) => a.get(`/api/templates/${(await makeTemplate({ ownerId, published: 1 })).id}/versions/1/network`).set(h),
   'PUT /api/templates/:id/versions/:version': async (a, h, ownerId) => {
     const t = await makeTemplate({ ownerId });
     return a.put(`/api/templates/${t.id}/versions/draft`).set(h).send({ revision: 1, content: t.doc });
@@ -159,6 +179,24 @@ const REQUESTS: Record<string, (a: Agent, h: Record<string, string>, ownerId?: n
     const owner = ownerId ?? (await makeUser(['author'])).id;
     const t = await makeTemplate({ ownerId: owner, published: 1, correctionBy: owner });
     return a.post(`/api/templates/${t.id}/corrections/${t.correctionId}/decision`).set(h).send({ decision: 'accept', note: 'Agreed.' });
+  },
+  'POST /api/templates/:id/files': async (a, h, ownerId) => a.post(`/api/templates/${(await makeTemplate({ ownerId })).id}/files`).set(h).attach('file', await smallPng(), 'matrix.png'),
+  'GET /api/templates/:id/files': async (a, h, ownerId) => a.get(`/api/templates/${(await templateWithFile(ownerId)).id}/files`).set(h),
+  'GET /api/templates/:id/files/:fileId': async (a, h, ownerId) => {
+    const t = await templateWithFile(ownerId);
+    return a.get(`/api/templates/${t.id}/files/${t.fileId}`).set(h);
+  },
+  'GET /api/templates/:id/files/:fileId/thumbnail': async (a, h, ownerId) => {
+    const t = await templateWithFile(ownerId);
+    return a.get(`/api/templates/${t.id}/files/${t.fileId}/thumbnail`).set(h);
+  },
+  'PATCH /api/templates/:id/files/:fileId': async (a, h, ownerId) => {
+    const t = await templateWithFile(ownerId);
+    return a.patch(`/api/templates/${t.id}/files/${t.fileId}`).set(h).send({ stageKey: 'st-audio' });
+  },
+  'DELETE /api/templates/:id/files/:fileId': async (a, h, ownerId) => {
+    const t = await templateWithFile(ownerId);
+    return a.delete(`/api/templates/${t.id}/files/${t.fileId}`).set(h);
   },
 };
 

@@ -128,10 +128,11 @@ const upload = (app: Backend['app'], s: Session, templateId: number, bytes: Buff
 };
 
 /** supertest collects a binary body as a Buffer with this parser. */
-const binary = (res: NodeJS.ReadableStream & { setEncoding(e: string): void }, cb: (err: Error | null, body: Buffer) => void) => {
+const binary = (res: unknown, cb: (err: Error | null, body: Buffer) => void) => {
+  const stream = res as NodeJS.ReadableStream;
   const chunks: Buffer[] = [];
-  res.on('data', (c: Buffer) => chunks.push(c));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
+  stream.on('data', (c: Buffer) => chunks.push(c));
+  stream.on('end', () => cb(null, Buffer.concat(chunks)));
 };
 
 for (const make of [fsBackend, s3Backend]) {
