@@ -5,19 +5,10 @@
 import request from 'supertest';
 import { checkNetwork, checkReading } from '../../api/domain/quick-check';
 import { apiEnv, randomIp } from '../support/api-env';
+import { workedMeter } from '../support/meters';
 
 /** check-values.md §3 worked meter: 2000 counts, ±(0.8 % + 2), ±(1 % + 2) on 2000 k. */
-const METER = {
-  kind: 'digital' as const,
-  leadOhms: 0,
-  ranges: [
-    { fullScaleOhms: 199.9, resolutionOhms: 0.1, pctOfReading: 0.8, counts: 2 },
-    { fullScaleOhms: 1999, resolutionOhms: 1, pctOfReading: 0.8, counts: 2 },
-    { fullScaleOhms: 19990, resolutionOhms: 10, pctOfReading: 0.8, counts: 2 },
-    { fullScaleOhms: 199900, resolutionOhms: 100, pctOfReading: 0.8, counts: 2 },
-    { fullScaleOhms: 1999000, resolutionOhms: 1000, pctOfReading: 1, counts: 2 },
-  ],
-};
+const METER = workedMeter();
 
 describe('Public calculation API', () => {
   it('POST /api/calc/parse reads 4K7J as 4.7 kΩ ±5 % (IEC 60062 clauses 4 and 5) and OL as over-range', async () => {
