@@ -1,10 +1,28 @@
 /** Drizzle queries of the chassis templates: each takes `db` or a transaction `tx`. */
 import { and, asc, count, desc, eq, exists, ilike, inArray, isNotNull, ne, or, sql, type SQL } from 'drizzle-orm';
-import { chassisTemplates, templateCorrections, templateShares, templateVersions, users, type CorrectionState, type CorrectionTarget, type TemplateVisibility } from '../../schema/index';
-import type { TemplateDocument } from '../domain/template-format';
+import { chassisTemplates, templateCorrections, templateShares, templateVersions, tubeTypes, users, type CorrectionState, type CorrectionTarget, type TemplateVisibility } from '../../schema/index';
+import type { BaseName, Heating, TemplateDocument, TubePin, TubeTypeRecord } from '../domain/template-format';
 import type { Tx } from '../db';
 
 const escapeLike = (s: string) => s.replace(/[\\%_]/g, (c) => '\\' + c);
+
+// ---------------------------------------------------------------------------------------------
+// Tube types, as the chassis network needs them
+
+/** The whole records (pins, ties, heater) of the named tube types that exist, by designation. */
+export async function tubeTypeRecords(tx: Tx, designations: string[]): Promise<Map<string, TubeTypeRecord>> {
+  if (designations.length === 0) return new Map();
+  const rows = await tx
+    .select({ designation: tubeTypes.designation, base: tubeTypes.base, heating: tubeTypes.heating, heaterVolts: tubeTypes.heaterVolts, heaterAmps: tubeTypes.heaterAmps, pins: tubeTypes.pins, ties: tubeTypes.ties, notes: tubeTypes.notes })
+    .from(tubeTypes)
+    .where(inArray(tubeTypes.designation, designations));
+  return new Map(
+    rows.map((r) => [
+      r.designation,
+      { designation: r.designation, base: r.base as BaseName, heating: r.heating as Heating, heaterVolts: r.heaterVolts, heaterAmps: r.heaterAmps, pins: r.pins as TubePin[], ties: r.ties as [number, number][], notes: r.notes },
+    ]),
+  );
+}
 
 // ---------------------------------------------------------------------------------------------
 // Templates

@@ -285,6 +285,16 @@ export function templateRoutes(ctx: Ctx): RouteDef[] {
       },
     },
     {
+      method: 'get',
+      path: '/api/templates/:id/versions/:version/network',
+      access: 'signed-in',
+      summary: 'Per test point: the in-circuit expected reading (null = open), its parallel paths and any chart disagreement',
+      validate: validate({ params: { id: ID, version: VERSION } }),
+      handler: async (req, res) => {
+        res.json(await templates.versionNetwork(ctx, req.signedIn!, id(req), versionRef(String(req.params.version))));
+      },
+    },
+    {
       method: 'put',
       path: '/api/templates/:id/versions/:version',
       access: 'signed-in',

@@ -8,10 +8,12 @@
  */
 import type { Role } from '../../schema/index';
 import type { TemplateVisibility } from '../../schema/index';
-import { TEMPLATE_FORMAT, TEMPLATE_FORMAT_VERSION, hotChassisFor, type ChassisInfo, type TemplateDocument, type TemplateProblem, type TubePin } from '../domain/template-format';
+import { checkCapacitors } from '../domain/capacitor-checks';
+import { assembleNetwork } from '../domain/chassis-network';
+import { TEMPLATE_FORMAT, TEMPLATE_FORMAT_VERSION, hotChassisFor, type ChassisInfo, type TemplateDocument, type TemplateProblem } from '../domain/template-format';
+import { disagreementsOf, templateNetwork } from '../domain/template-network';
 import type { Db, Tx } from '../db';
 import { AppError, badRequest, conflict, forbidden, notFound } from '../http/errors';
-import { pinsOf } from '../tube-types/tube-types.repository';
 import { problemsError } from '../tube-types/tube-types.use-cases';
 import { canonicalDocument, canonicalJson, sameDocument } from './canonical';
 import { diffDocuments } from './template-diff';
@@ -28,19 +30,62 @@ type Deps = { db: Db };
 // ---------------------------------------------------------------------------------------------
 // Documents
 
-/** Every problem of a document (shape first; the domain rules only on a well-shaped one). */
-export async function documentProblems(tx: Tx, doc: unknown, prefix = ''): Promise<TemplateProblem[]> {
-  const shape = shapeProblems(doc, prefix);
-  if (shape.length) return shape;
-  const d = doc as TemplateDocument;
-  const tubes = await pinsOf(tx, tubeTypesOf(d));
-  return ruleProblems(d, new Map(tubes.map((t) => [t.designation, { pins: t.pins as TubePin[] }])), prefix);
+/** A warning about a document that checks out: it is saved, and the warning returned beside it. */
+export interface TemplateWarning extends TemplateProblem {
+  code: string;
+  values?: Record<string, unknown>;
 }
 
-async function checkDocument(tx: Tx, doc: unknown, prefix = ''): Promise<TemplateDocument> {
-  const problems = await documentProblems(tx, doc, prefix);
+const CHART_DISAGREES = 'chart reading disagrees with the network beyond its tolerance — an error in the template or in the service data';
+
+/**
+ * Every problem of a document (shape first; the domain rules only on a well-shaped one; then the
+ * chassis network's errors that the rules do not report at the same path), and — only when there
+ * is none — the warnings: the network's (a heater at its hot V/I), the capacitor list's rule
+ * checks, and the chart readings that disagree with the network.
+ */
+export async function documentCheck(tx: Tx, doc: unknown, prefix = ''): Promise<{ problems: TemplateProblem[]; warnings: TemplateWarning[] }> {
+  const shape = shapeProblems(doc, prefix);
+  if (shape.length) return { problems: shape, warnings: [] };
+  const d = doc as TemplateDocument;
+  const tubes = await repo.tubeTypeRecords(tx, tubeTypesOf(d));
+  const problems = ruleProblems(d, tubes, prefix);
+  const at = (path: string) => (prefix ? `${prefix}.${path}` : path);
+  const taken = new Set(problems.map((p) => p.path));
+  const network = [...assembleNetwork(d, tubes, { tubesIn: true }).problems, ...assembleNetwork(d, tubes, { tubesIn: false }).problems];
+  const seen = new Set<string>();
+  const warnings: TemplateWarning[] = [];
+  for (const p of network) {
+    // A tube type's own tie problem is the library's, not the document's: warn at no document path.
+    const path = p.path.startsWith('tubeTypes.') ? p.path : at(p.path);
+    if (seen.has(`${path} ${p.message}`)) continue;
+    seen.add(`${path} ${p.message}`);
+    if (p.severity === 'error' && !p.path.startsWith('tubeTypes.')) {
+      if (!taken.has(path)) problems.push({ path, message: p.message });
+    } else warnings.push({ path, code: 'network', message: p.message });
+  }
+  if (problems.length) return { problems, warnings: [] };
+  for (const f of checkCapacitors(d, tubes)) warnings.push({ path: at(f.path), code: `capacitor-${f.code}`, message: f.message, values: { ...f.values, severity: f.severity } });
+  for (const x of disagreementsOf(templateNetwork(d, tubes))) {
+    warnings.push({
+      path: at(x.path),
+      code: 'chart-disagrees',
+      message: `${CHART_DISAGREES}: ${x.message}`,
+      values: { printed: x.printed, networkOhms: x.networkOhms, deviationPct: x.deviationPct, tolerancePct: x.tolerancePct },
+    });
+  }
+  return { problems, warnings };
+}
+
+/** Every problem of a document (see documentCheck); warnings aside. */
+export async function documentProblems(tx: Tx, doc: unknown, prefix = ''): Promise<TemplateProblem[]> {
+  return (await documentCheck(tx, doc, prefix)).problems;
+}
+
+async function checkDocument(tx: Tx, doc: unknown, prefix = ''): Promise<{ doc: TemplateDocument; warnings: TemplateWarning[] }> {
+  const { problems, warnings } = await documentCheck(tx, doc, prefix);
   if (problems.length) throw problemsError(problems, 'The template');
-  return canonicalDocument(doc as TemplateDocument);
+  return { doc: canonicalDocument(doc as TemplateDocument), warnings };
 }
 
 export function derivedOf(doc: TemplateDocument): repo.Derived {
@@ -217,6 +262,18 @@ export async function diffVersions(ctx: Deps, actor: Actor, id: number, from: Ve
   return { templateId: id, from, to, ...diffDocuments(before, after) };
 }
 
+/**
+ * The in-circuit expectation of every test point of a version (or the owner's draft): per test
+ * point key the expected reading (null = open), the parallel paths and any chart disagreement,
+ * from one factorization per condition set (api/domain/template-network.ts).
+ */
+export async function versionNetwork(ctx: Deps, actor: Actor, id: number, ref: VersionRef) {
+  const a = await visible(ctx.db, actor, id);
+  const doc = await contentOf(ctx.db, a, ref, 'version');
+  const answer = templateNetwork(doc, await repo.tubeTypeRecords(ctx.db, tubeTypesOf(doc)));
+  return { templateId: id, version: ref, ...answer };
+}
+
 /** The canonical export: the document only (no ids, no timestamps), keys in canonical order. */
 export async function exportVersion(ctx: Deps, actor: Actor, id: number, ref: VersionRef | undefined) {
   const a = await visible(ctx.db, actor, id);
@@ -261,7 +318,7 @@ async function createWith(tx: Tx, ownerId: number, doc: TemplateDocument, origin
 /** A new template and its first draft, from a chassis or a whole document (checked first). */
 export async function createTemplate(ctx: Deps, actor: Actor, input: { chassis: NewChassis } | { document: unknown }) {
   return ctx.db.transaction(async (tx) => {
-    const doc = 'document' in input ? await checkDocument(tx, input.document, 'document') : await checkDocument(tx, emptyDocument(input.chassis));
+    const { doc } = 'document' in input ? await checkDocument(tx, input.document, 'document') : await checkDocument(tx, emptyDocument(input.chassis));
     const id = await createWith(tx, actor.id, doc);
     return templateView(tx, actor, await visible(tx, actor, id));
   });
@@ -307,10 +364,10 @@ export async function saveDraft(ctx: Deps, actor: Actor, id: number, body: { rev
   return ctx.db.transaction(async (tx) => {
     const a = await visible(tx, actor, id, true);
     ownerOnly(a, 'edit its draft');
-    const doc = await checkDocument(tx, body.content, 'content');
+    const { doc, warnings } = await checkDocument(tx, body.content, 'content');
     if (body.revision !== a.t.revision) throw staleRevision(body.revision, a.t.revision);
     await writeDraft(tx, a.t, doc);
-    return draftView(tx, (await repo.findTemplate(tx, id))!);
+    return { ...(await draftView(tx, (await repo.findTemplate(tx, id))!)), warnings };
   });
 }
 

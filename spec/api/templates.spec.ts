@@ -214,6 +214,101 @@ describe('Chassis templates', () => {
     expect(ok.status).toBe(200);
   });
 
+  describe('the draft checked as a network', () => {
+    it('refuses a node that resolves to nothing and a pot without its wiper, each with its path (once); the mended draft saves', async () => {
+      const env = await apiEnv();
+      const t = await makeTemplate({ ownerId: author.id });
+      const bad = structuredClone(t.doc);
+      bad.components[1].nodes = ['V1.7', 'B+9']; // no junction B+9
+      bad.components.push({ ...bad.components[1], key: 'c-p1', ref: 'P1', kind: 'pot', nodes: ['V1.1', 'chassis'], wiper: null, nominal: { ohms: 500000, text: '500k' } });
+      const r = await request(env.app).put(`/api/templates/${t.id}/draft`).set(bearer(author)).send({ revision: 1, content: bad });
+      expect(r.status).toBe(400);
+      const paths = (r.body.error.details.problems as { path: string }[]).map((p) => p.path);
+      expect(paths).toEqual(jasmine.arrayWithExactContents(['content.components[1].nodes[1]', 'content.components[3].wiper']));
+      const [row] = await env.database.db.select({ revision: chassisTemplates.revision }).from(chassisTemplates).where(eq(chassisTemplates.id, t.id));
+      expect(row.revision).toBe(1);
+      bad.components[1].nodes = ['V1.7', 'B+1'];
+      bad.components[3].wiper = { node: 'V1.1', fraction: 0.5 };
+      const ok = await request(env.app).put(`/api/templates/${t.id}/draft`).set(bearer(author)).send({ revision: 1, content: bad });
+      expect(ok.status).withContext(JSON.stringify(ok.body)).toBe(200);
+    });
+
+    it('saves a chart reading off by a factor of two, with a warning at its path; the agreeing chart saves with none', async () => {
+      const env = await apiEnv();
+      const t = await makeTemplate({ ownerId: author.id });
+      const off = structuredClone(t.doc);
+      const chart = off.testPoints[2];
+      if (chart.kind !== 'chart-reading') throw new Error('the sample has its chart reading third');
+      chart.expected = { ohms: 500000 }; // the network reads R2 = 250 kΩ between V1.7 and B+1
+      const r = await request(env.app).put(`/api/templates/${t.id}/draft`).set(bearer(author)).send({ revision: 1, content: off });
+      expect(r.status).withContext(JSON.stringify(r.body)).toBe(200);
+      expect(r.body.revision).toBe(2);
+      expect(r.body.warnings.length).toBe(1);
+      const [w] = r.body.warnings;
+      expect(w.path).toBe('content.testPoints[2]');
+      expect(w.code).toBe('chart-disagrees');
+      expect(w.message).toContain('chart reading disagrees with the network beyond its tolerance — an error in the template or in the service data');
+      expect(w.values.networkOhms).toBeCloseTo(250000, 6);
+      expect(w.values.deviationPct).toBeCloseTo(-50, 9);
+      const saved = (await versionsOf(t.id)).find((v) => v.state === 'draft')!;
+      expect((saved.content as typeof t.doc).testPoints[2]).toEqual(jasmine.objectContaining({ expected: { ohms: 500000 } }));
+      const agree = await request(env.app).put(`/api/templates/${t.id}/draft`).set(bearer(author)).send({ revision: 2, content: t.doc });
+      expect(agree.status).toBe(200);
+      expect(agree.body.warnings).toEqual([]);
+    });
+
+    it('warns about the capacitor list (a line capacitor without an X/Y class) and still saves', async () => {
+      const env = await apiEnv();
+      const t = await makeTemplate({ ownerId: author.id });
+      const doc = structuredClone(t.doc);
+      doc.components[2].capacitor = { ...doc.components[2].capacitor!, lineConnected: true };
+      const r = await request(env.app).put(`/api/templates/${t.id}/draft`).set(bearer(author)).send({ revision: 1, content: doc });
+      expect(r.status).toBe(200);
+      expect(r.body.warnings.map((w: { path: string; code: string }) => `${w.code} ${w.path}`)).toEqual(['capacitor-safety-class-missing content.components[2].capacitor.safetyClass']);
+      doc.components[2].capacitor = { ...doc.components[2].capacitor!, safetyClass: 'Y' };
+      const y = await request(env.app).put(`/api/templates/${t.id}/draft`).set(bearer(author)).send({ revision: 2, content: doc });
+      expect(y.body.warnings).toEqual([]);
+    });
+  });
+
+  describe('GET /api/templates/:id/versions/:version/network', () => {
+    it('answers per test point the expected reading, its parallel paths and any chart disagreement', async () => {
+      const env = await apiEnv();
+      const t = await makeTemplate({ ownerId: author.id, published: 1, visibility: 'public' });
+      const r = await request(env.app).get(`/api/templates/${t.id}/versions/1/network`).set(bearer(tech));
+      expect(r.status).toBe(200);
+      expect(Object.keys(r.body.testPoints)).toEqual(['tp-r1', 'tp-r2', 'tp-v1p']);
+      // R1 10 MΩ from V1.1 to chassis, nothing in parallel (C1 is open at DC)
+      expect(r.body.testPoints['tp-r1'].expectedOhms).toBeCloseTo(10e6, 3);
+      expect(r.body.testPoints['tp-r1'].parallelPaths).toEqual({ ohms: null, edges: [] });
+      expect(r.body.testPoints['tp-v1p'].expectedOhms).toBeCloseTo(250000, 6);
+      expect(r.body.testPoints['tp-v1p'].parallelPaths.edges).toEqual([{ edgeId: 'c-r2', share: 1 }]);
+      expect(r.body.testPoints['tp-v1p'].disagreement).toBeUndefined();
+      expect(r.body.problems).toEqual([]);
+    });
+
+    it('flags a disagreeing chart reading of the owner’s draft (others who see the template get 403 for the draft, 404 for a missing version)', async () => {
+      const env = await apiEnv();
+      const t = await makeTemplate({ ownerId: author.id, published: 1, visibility: 'public' });
+      const off = structuredClone(t.doc);
+      const chart = off.testPoints[2];
+      if (chart.kind !== 'chart-reading') throw new Error('the sample has its chart reading third');
+      chart.expected = { ohms: 125000 };
+      const loaded = await request(env.app).get(`/api/templates/${t.id}/draft`).set(bearer(author));
+      const put = await request(env.app).put(`/api/templates/${t.id}/draft`).set(bearer(author)).send({ revision: loaded.body.revision, content: off });
+      expect(put.status).withContext(JSON.stringify(put.body)).toBe(200);
+      const mine = await request(env.app).get(`/api/templates/${t.id}/versions/draft/network`).set(bearer(author));
+      expect(mine.status).toBe(200);
+      expect(mine.body.testPoints['tp-v1p'].disagreement).toEqual(jasmine.objectContaining({ path: 'testPoints[2]', networkOhms: 250000, tolerancePct: 20 }));
+      const v1 = await request(env.app).get(`/api/templates/${t.id}/versions/1/network`).set(bearer(author));
+      expect(v1.body.testPoints['tp-v1p'].disagreement).toBeUndefined();
+      const theirs = await request(env.app).get(`/api/templates/${t.id}/versions/draft/network`).set(bearer(tech));
+      expect(theirs.status).toBe(403);
+      const missing = await request(env.app).get(`/api/templates/${t.id}/versions/7/network`).set(bearer(author));
+      expect(missing.status).toBe(404);
+    });
+  });
+
   it('refuses an IC pin as a tie point, and takes an NC pin', async () => {
     const env = await apiEnv();
     const tube = await request(env.app)
