@@ -82,7 +82,6 @@ const MATRIX: Record<string, Record<Caller, Expect>> = {
   'PUT /api/templates/:id/draft': OWNER_WRITES,
   'GET /api/templates/:id/versions/:version': SEE_TEMPLATE,
   'GET /api/templates/:id/versions/:version/network': SEE_TEMPLATE,
-  'GET /api/templates/:id/versions/:version/network': SEE_TEMPLATE,
   'PUT /api/templates/:id/versions/:version': OWNER_WRITES,
   'POST /api/templates/:id/publish': OWNER_WRITES,
   'POST /api/templates/:id/versions/:number/retire': OWNER_WRITES,
@@ -158,7 +157,6 @@ const REQUESTS: Record<string, (a: Agent, h: Record<string, string>, ownerId?: n
     return a.put(`/api/templates/${t.id}/draft`).set(h).send({ revision: 1, content: t.doc });
   },
   'GET /api/templates/:id/versions/:version': async (a, h, ownerId) => a.get(`/api/templates/${(await makeTemplate({ ownerId, published: 1 })).id}/versions/1`).set(h),
-  'GET /api/templates/:id/versions/:version/network': async (a, h, ownerId) => a.get(`/api/templates/${(await makeTemplate({ ownerId, published: 1 })).id}/versions/1/network`).set(h),
   'GET /api/templates/:id/versions/:version/network': async (a, h, ownerId) => a.get(`/api/templates/${(await makeTemplate({ ownerId, published: 1 })).id}/versions/1/network`).set(h),
   'PUT /api/templates/:id/versions/:version': async (a, h, ownerId) => {
     const t = await makeTemplate({ ownerId });
