@@ -22,6 +22,11 @@ export const routes: Routes = [
     loadChildren: () => import('./admin/admin.routes'),
   },
   {
+    path: 'templates',
+    canActivate: [signedIn],
+    loadChildren: () => import('./templates/templates.routes'),
+  },
+  {
     path: 'calc',
     loadChildren: () => import('./calc/calc.routes'),
   },

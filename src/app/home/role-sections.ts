@@ -51,7 +51,7 @@ export const ROLE_SECTIONS: Readonly<Record<Role, RoleSection>> = {
       'Enter expected values from service data, colour bands or a known-good set',
       'Publish versions, share templates and accept corrections',
     ],
-    links: [QUICK_CHECK],
+    links: [{ label: 'Template library', link: '/templates' }, { label: 'Tube types', link: '/templates/tube-types' }, QUICK_CHECK],
   },
   instructor: {
     role: 'instructor',

@@ -6,7 +6,14 @@ describe('navItemsFor', () => {
     const technician = navItemsFor(true, new Set(['technician'])).map((i) => i.link);
     expect(admin).toContain('/admin/users');
     expect(technician).not.toContain('/admin/users');
-    expect(technician).toEqual(['/home', '/calc']);
+    expect(technician).toEqual(['/home', '/templates', '/calc']);
+  });
+
+  it('shows the template library to every signed-in user, never to a visitor', () => {
+    for (const role of ['admin', 'author', 'technician', 'instructor', 'student'] as const) {
+      expect(navItemsFor(true, new Set([role])).map((i) => i.link)).toContain('/templates');
+    }
+    expect(navItemsFor(false, new Set()).map((i) => i.link)).not.toContain('/templates');
   });
 
   it('shows a visitor only the public quick check', () => {
