@@ -95,6 +95,7 @@ const templateId = (req: Request) => Number(req.params.id);
 const fileId = (req: Request) => Number(req.params.fileId);
 
 export function fileRoutes(ctx: Ctx): RouteDef[] {
+  const uploadPath = validate({ params: { id: ID } });
   const ownerGate: RequestHandler = async (req, _res, next) => {
     await files.checkCanUpload(ctx, req.signedIn!, templateId(req));
     next();
@@ -125,7 +126,7 @@ export function fileRoutes(ctx: Ctx): RouteDef[] {
       path: '/api/templates/:id/files',
       access: 'signed-in',
       summary: 'Upload a schematic or photo (multipart: file, optional stageKey) to the template or a stage (owner)',
-      validate: (req, res, next) => validate({ params: { id: ID } })(req, res, (err?: unknown) => (err ? next(err) : multipartOnly(req, res, next))),
+      validate: (req, res, next) => uploadPath(req, res, (err?: unknown) => (err ? next(err) : multipartOnly(req, res, next))),
       before: [ownerGate, uploadParser(ctx)],
       handler: async (req, res) => {
         const fields: UploadFields = { ...(req.body as Record<string, string>) };
