@@ -1,7 +1,7 @@
 /**
  * `npm run bench` — every timing target of Driftmark lives here, never in tests (issue 2).
  *
- *   npx tsx bench/run.ts [--check] [--only=domain|api|auth]
+ *   npx tsx bench/run.ts [--check] [--only=domain|api|auth|library]
  *
  * stdout: one JSON object per figure (the first one describes the machine); with --check, then
  * one PASS/FAIL line per target, and exit 1 when a gating target fails. Progress goes to stderr.
@@ -11,7 +11,7 @@ import { cpus, loadavg, totalmem } from 'node:os';
 import { runDomain } from './domain';
 import { progress, type Figure } from './lib/stats';
 
-const GROUPS = ['domain', 'api', 'auth'] as const;
+const GROUPS = ['domain', 'api', 'auth', 'library'] as const;
 type Group = (typeof GROUPS)[number];
 
 function parseArgs(argv: string[]): { check: boolean; groups: Group[] } {
@@ -24,7 +24,7 @@ function parseArgs(argv: string[]): { check: boolean; groups: Group[] } {
       for (const g of wanted) if (!(GROUPS as readonly string[]).includes(g)) throw new Error(`unknown group '${g}': use ${GROUPS.join(', ')}`);
       groups = GROUPS.filter((g) => wanted.includes(g));
     } else if (arg === '--help' || arg === '-h') {
-      process.stderr.write('usage: npx tsx bench/run.ts [--check] [--only=domain|api|auth]\n');
+      process.stderr.write('usage: npx tsx bench/run.ts [--check] [--only=domain|api|auth|library]\n');
       process.exit(0);
     } else throw new Error(`unknown argument '${arg}'`);
   }
@@ -61,6 +61,11 @@ async function main(): Promise<number> {
   if (groups.includes('api') || groups.includes('auth')) {
     const { runServerGroups } = await import('./api');
     await runServerGroups(emit, { api: groups.includes('api'), auth: groups.includes('auth') });
+  }
+  if (groups.includes('library')) {
+    progress('group library');
+    const { runLibrary } = await import('./library');
+    await runLibrary(emit);
   }
   emit({ figure: 'machine.load-at-end', value: Math.round(loadavg()[0] * 100) / 100, unit: 'load (1 min)', target: null, seconds: Math.round((Date.now() - started) / 100) / 10 });
   progress(`done in ${((Date.now() - started) / 1000).toFixed(1)} s`);
