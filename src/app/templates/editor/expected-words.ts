@@ -5,6 +5,11 @@ import type { TemplateDocument } from '@domain/template-format';
 /** The smallest share of the meter's current for a path to be named as lowering a reading. */
 export const NAMED_SHARE = 0.01;
 
+/** Ohms to four significant figures, as a technician writes them (`154.3 kΩ`). */
+export function showOhms(ohms: number): string {
+  return formatOhms(Number(ohms.toPrecision(4)));
+}
+
 /** The in-circuit value the network gives a test point, in words. */
 export function inCircuitText(r: ExpectedReading | undefined): string {
   if (r === undefined) return '—';
@@ -16,7 +21,7 @@ export function inCircuitText(r: ExpectedReading | undefined): string {
     case 'unknown-component':
       return 'no such component';
     default:
-      return r.inCircuitOhms === null ? 'open (no DC path)' : formatOhms(r.inCircuitOhms);
+      return r.inCircuitOhms === null ? 'open (no DC path)' : showOhms(r.inCircuitOhms);
   }
 }
 

@@ -3,7 +3,6 @@ import { ChangeDetectionStrategy, Component as NgComponent, ElementRef, computed
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatMenuModule } from '@angular/material/menu';
-import { formatOhms } from '@domain/notation';
 import type { Component, TestPoint } from '@domain/template-format';
 import { ComponentForm } from '../component-form/component-form';
 import { EditorStore } from '../editor-store';
@@ -88,7 +87,6 @@ export class StagePanel {
     return tp.kind === 'component-check' ? 'component check' : tp.kind === 'chart-reading' ? 'chart reading' : 'pair relation';
   }
 
-  protected formatOhms = formatOhms;
 
   protected rename(event: Event): void {
     const name = (event.target as HTMLInputElement).value.trim();
