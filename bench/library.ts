@@ -152,7 +152,7 @@ async function insertAuthors(pool: pg.Pool): Promise<number[]> {
   return res.rows.map((r) => r.id);
 }
 
-async function insertLibrary(pool: pg.Pool, n: number): Promise<{ seconds: number; templates: number }> {
+export async function insertLibrary(pool: pg.Pool, n: number): Promise<{ seconds: number; templates: number }> {
   const t0 = performance.now();
   const vs = variants();
   // A temp table lives in one session: take one client for the whole insert.
