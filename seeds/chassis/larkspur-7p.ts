@@ -57,8 +57,8 @@ export function larkspur7p(): TemplateDocument {
   b.wire('S1', 'FUSED', 'PRI', 'power switch (on the tone control), closed');
   b.winding('T1P', 'PRI', 'LINE-N', 4.5, 'power transformer, primary', { mainsSide: true });
   b.cap('C1', 'PRI', 'LINE-N', { uF: 0.01, workingVolts: 275, dielectric: 'film', safetyClass: 'X', lineConnected: true }, { mainsSide: true, note: 'line bypass across the primary (X class)' });
-  b.winding('T1HA', 'V7.6', 'HVCT', 115, 'HV winding, first half');
-  b.winding('T1HB', 'HVCT', 'V7.4', 122, 'HV winding, second half');
+  b.winding('T1HA', 'V7.6', 'HVCT', 115, 'HV winding, first half', { voltsAcross: LARKSPUR_HV_RMS });
+  b.winding('T1HB', 'HVCT', 'V7.4', 122, 'HV winding, second half', { voltsAcross: LARKSPUR_HV_RMS });
   b.wire('W1', 'HVCT', 'chassis', 'HV centre tap to chassis');
   b.winding('T1F', 'V7.2', 'V7.8', 0.1, '5 V rectifier filament winding');
   b.heater('V7F', 'V7.2', 'V7.8', 0.35, '5Y3GT filament');

@@ -53,8 +53,8 @@ export function quenbyQa10(): TemplateDocument {
   b.wire('S1', 'FUSED', 'PRI', 'power switch, closed');
   b.winding('T1P', 'PRI', 'LINE-N', 6, 'power transformer, primary', { mainsSide: true });
   b.cap('C1', 'PRI', 'LINE-N', { uF: 0.01, workingVolts: 275, dielectric: 'film', safetyClass: 'X', lineConnected: true }, { mainsSide: true, note: 'across the primary (X class)' });
-  b.winding('T1HA', 'V4.7', 'HVCT', 95, 'HV winding, first half');
-  b.winding('T1HB', 'HVCT', 'V4.1', 100, 'HV winding, second half');
+  b.winding('T1HA', 'V4.7', 'HVCT', 95, 'HV winding, first half', { voltsAcross: QUENBY_HV_RMS });
+  b.winding('T1HB', 'HVCT', 'V4.1', 100, 'HV winding, second half', { voltsAcross: QUENBY_HV_RMS });
   b.wire('W1', 'HVCT', 'chassis', 'HV centre tap to chassis');
   b.winding('T1H', 'H', 'chassis', 0.05, '6.3 V heater winding');
   b.heater('V4H', 'V4.4', 'V4.5', 0.9, 'EZ81 heater');
