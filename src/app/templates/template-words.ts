@@ -77,7 +77,8 @@ export function nominalText(n: Nominal | Expected): string {
   if ('state' in n) return n.state === 'open' ? 'open (∞)' : 'short (0 Ω)';
   const shown = formatOhms(n.ohms);
   const typed = 'text' in n ? n.text : undefined;
-  return typed && typed.replace(/\s+/g, '') !== shown.replace(/\s+/g, '') ? `${shown} (${typed})` : shown;
+  // The typed text adds something only when it is a letter code (4K7, R47, 1M2).
+  return typed && /\d[RKMG]\d|^R\d/i.test(typed.trim()) ? `${shown} (${typed.trim()})` : shown;
 }
 
 export function toleranceText(pct: number | null | undefined): string {

@@ -62,7 +62,8 @@ describe('Library', () => {
     await fixture.whenStable();
     const cells = await (await loader.getHarness(MatTableHarness)).getCellTextByColumnName();
     expect(cells['maker'].text[0]).toContain('Quillmere Radio Co.');
-    expect(cells['model'].text).toEqual(['Wren 3']);
+    // The model has its own column on a wide screen and sits beside the maker on a tablet.
+    expect(cells['model']?.text[0] ?? cells['maker'].text[0]).toContain('Wren 3');
     expect(cells['chassis'].text).toEqual(['QW-3']);
     expect(cells['kind'].text).toEqual(['table radio']);
     expect(cells['stages'].text).toEqual(['1']);

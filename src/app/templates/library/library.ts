@@ -32,6 +32,7 @@ export const SORT_LABELS: Readonly<Record<LibrarySort, string>> = {
   updated: 'Recently updated',
 };
 const SORTS = Object.keys(SORT_LABELS) as LibrarySort[];
+const MEDIUM_QUERY = '(max-width: 1099.98px)';
 
 /** `/templates`: the template library — search, filters, sort and server-side pages. */
 @Component({
@@ -62,10 +63,14 @@ export class Library {
   private readonly matSort = viewChild(MatSort);
 
   protected readonly narrow = toSignal(inject(BreakpointObserver).observe(NARROW_QUERY).pipe(map((s) => s.matches)), { initialValue: false });
+  /** On a tablet the model moves under the maker, and the date steps aside. */
+  protected readonly medium = toSignal(inject(BreakpointObserver).observe(MEDIUM_QUERY).pipe(map((s) => s.matches)), { initialValue: false });
   protected readonly columns = computed(() =>
     this.narrow()
       ? ['maker', 'surveys']
-      : ['maker', 'model', 'chassis', 'kind', 'author', 'stages', 'testPoints', 'versions', 'surveys', 'updated'],
+      : this.medium()
+        ? ['maker', 'chassis', 'kind', 'author', 'stages', 'testPoints', 'versions', 'surveys']
+        : ['maker', 'model', 'chassis', 'kind', 'author', 'stages', 'testPoints', 'versions', 'surveys', 'updated'],
   );
   protected readonly canAuthor = computed(() => this.auth.hasRole('author', 'admin'));
   protected readonly kinds = CHASSIS_KINDS;

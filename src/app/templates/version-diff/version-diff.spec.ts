@@ -76,8 +76,8 @@ describe('VersionDiff', () => {
     expect(components.map((r) => r.mark)).toEqual(['add_circle+ added', 'remove_circle− removed', 'change_circle~ changed']);
     expect(components.map((r) => r.label)).toEqual(['R3', 'C1', 'R2']);
     expect(components[0].fields).toEqual([]);
-    // Changed fields, old → new, with the values as a technician writes them (and as typed).
-    expect(components[2].fields).toEqual(['nominal: 250 kΩ (250k) → 220 kΩ (220k)', 'tolerancePct: 10 → 5']);
+    // Changed fields, old → new, with the values as a technician writes them.
+    expect(components[2].fields).toEqual(['nominal: 250 kΩ → 220 kΩ', 'tolerancePct: 10 → 5']);
   });
 
   it('lists test points removed and changed, a move in bench order in words', async () => {
