@@ -199,8 +199,9 @@ export class EditorStore {
     this.serverProblems.set([]);
     this.conflict.set(null);
     if (change === this.changeCount()) this.dirty.set(false);
-    const fromApi = (answer.warnings ?? []).map((w) => (typeof w === 'string' ? w : `${w.path}: ${w.message}`));
-    const local = [...this.networkProblems(), ...placeProblemsOrEmpty(this)].filter((p) => p.severity === 'warning').map((p) => p.message);
+    const fromApi = (answer.warnings ?? []).map((w) => (typeof w === 'string' ? w : w.message));
+    // The API's warnings when it sends them; else the browser's own (network, capacitor list).
+    const local = fromApi.length ? [] : [...this.networkProblems(), ...placeProblemsOrEmpty(this)].filter((p) => p.severity === 'warning').map((p) => p.message);
     this.savedWarnings.set([...fromApi, ...local]);
     this.saveMessage.set(`Saved as revision ${answer.revision}.`);
     this.announce(`Saved as revision ${answer.revision}${this.savedWarnings().length ? `, ${this.savedWarnings().length} warnings` : ''}.`);

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
@@ -58,6 +58,7 @@ export class TemplateEditor {
   protected readonly store = inject(EditorStore);
   private readonly api = inject(DraftApi);
   private readonly destroyRef = inject(DestroyRef);
+  private readonly host = inject<ElementRef<HTMLElement>>(ElementRef);
 
   protected readonly loadError = signal<string | null>(null);
   protected readonly loading = signal(true);
@@ -75,6 +76,18 @@ export class TemplateEditor {
     effect(() => {
       const id = this.templateId();
       untracked(() => this.loadAll(id));
+    });
+    // Stacked (tablet): a new selection brings its pane into view below the outline.
+    let first = true;
+    effect(() => {
+      this.store.selection();
+      if (first) {
+        first = false;
+        return;
+      }
+      if (typeof matchMedia === 'function' && matchMedia('(max-width: 1000px)').matches) {
+        queueMicrotask(() => this.host.nativeElement.querySelector('main.detail')?.scrollIntoView({ block: 'start' }));
+      }
     });
     // Keep unsaved work in the browser (cleared once saved).
     effect(() => {

@@ -1,19 +1,19 @@
-import { ChangeDetectionStrategy, Component as NgComponent, computed, inject } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import type { CapacitorFinding } from '@domain/capacitor-checks';
-import type { Component } from '@domain/template-format';
+import type { Component as Part } from '@domain/template-format';
 import { EditorStore } from '../editor-store';
 
 interface CapRow {
-  c: Component;
+  c: Part;
   index: number;
   stage: string;
   findings: CapacitorFinding[];
 }
 
 /** The recap kit: every capacitor with µF, volts, kind, polarity, can section, X/Y — and the rule checks (api/domain/capacitor-checks.ts). */
-@NgComponent({
+@Component({
   selector: 'dm-capacitor-list',
   imports: [MatButtonModule, MatIconModule],
   templateUrl: './capacitor-list.html',

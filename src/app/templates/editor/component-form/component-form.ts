@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component as NgComponent, DestroyRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { AbstractControl, NonNullableFormBuilder, ReactiveFormsModule, ValidationErrors, Validators } from '@angular/forms';
 import { MatAutocompleteModule } from '@angular/material/autocomplete';
 import { MatButtonModule } from '@angular/material/button';
@@ -7,7 +7,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { DIELECTRICS, TEMPLATE_COMPONENT_KINDS, type CapacitorInfo, type Component, type Dielectric, type SafetyClass, type TemplateComponentKind } from '@domain/template-format';
+import { DIELECTRICS, TEMPLATE_COMPONENT_KINDS, type CapacitorInfo, type Component as Part, type Dielectric, type SafetyClass, type TemplateComponentKind } from '@domain/template-format';
 import { VALUE_SOURCES, type ValueSource } from '@domain/words';
 import { Subscription } from 'rxjs';
 import { FieldErrors, type ErrorMessages } from '../../../shared/field-errors/field-errors';
@@ -30,7 +30,7 @@ export function nominalValidator(control: AbstractControl<string>): ValidationEr
 const num = (min: number, max: number) => [Validators.min(min), Validators.max(max)];
 
 /** One component: every field of the format, the nominal parsed as typed, capacitor details for capacitors. */
-@NgComponent({
+@Component({
   selector: 'dm-component-form',
   imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatCheckboxModule, MatAutocompleteModule, MatButtonModule, MatIconModule, FieldErrors],
   templateUrl: './component-form.html',
@@ -62,7 +62,7 @@ export class ComponentForm {
     inject(DestroyRef).onDestroy(() => this.sub?.unsubscribe());
   }
 
-  private build(c: Component | null) {
+  private build(c: Part | null) {
     const cap = c?.capacitor;
     return this.fb.group({
       ref: [c?.ref ?? '', [Validators.required, Validators.pattern(/^[A-Za-z][A-Za-z0-9.+/-]{0,15}$/)]],
@@ -97,7 +97,7 @@ export class ComponentForm {
     });
   }
 
-  private reset(c: Component | null): void {
+  private reset(c: Part | null): void {
     this.sub?.unsubscribe();
     const fresh = this.build(c);
     for (const name of Object.keys(fresh.controls) as (keyof typeof fresh.controls)[]) {
@@ -133,7 +133,7 @@ export class ComponentForm {
     const c = this.component();
     if (c === null) return;
     this.showNominal();
-    const patch: Partial<Component> = { kind: v.kind, fuseRole: v.fuseRole, mainsSide: v.mainsSide, nonLinear: v.nonLinear, valueSource: v.valueSource };
+    const patch: Partial<Part> = { kind: v.kind, fuseRole: v.fuseRole, mainsSide: v.mainsSide, nonLinear: v.nonLinear, valueSource: v.valueSource };
     if (f.ref.valid) patch.ref = v.ref.trim();
     patch.nodes = [v.a.trim(), v.b.trim()];
     if (v.kind === 'pot' && f.wiperFraction.valid && v.wiperNode.trim() !== '') patch.wiper = { node: v.wiperNode.trim(), fraction: v.wiperFraction ?? 0.5 };

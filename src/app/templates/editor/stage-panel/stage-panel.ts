@@ -1,9 +1,9 @@
 import { CdkDrag, CdkDragDrop, CdkDragHandle, CdkDropList } from '@angular/cdk/drag-drop';
-import { ChangeDetectionStrategy, Component as NgComponent, ElementRef, computed, inject, signal, viewChildren } from '@angular/core';
+import { ChangeDetectionStrategy, Component, ElementRef, computed, inject, signal, viewChildren } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatMenuModule } from '@angular/material/menu';
-import type { Component, TestPoint } from '@domain/template-format';
+import type { Component as Part, TestPoint } from '@domain/template-format';
 import { ComponentForm } from '../component-form/component-form';
 import { EditorStore } from '../editor-store';
 import { inCircuitText, loweredText, parallelRefs } from '../expected-words';
@@ -18,7 +18,7 @@ const KIND_SHORT: Readonly<Record<string, string>> = {
 };
 
 /** One stage: its sockets, components and test points (bench order), with the network's expectations. */
-@NgComponent({
+@Component({
   selector: 'dm-stage-panel',
   imports: [CdkDropList, CdkDrag, CdkDragHandle, MatButtonModule, MatIconModule, MatMenuModule, ComponentForm, TestPointForm, PastePanel],
   templateUrl: './stage-panel.html',
@@ -38,19 +38,19 @@ export class StagePanel {
     return KIND_SHORT[kind] ?? kind;
   }
 
-  protected nominal(c: Component): string {
+  protected nominal(c: Part): string {
     if (c.kind === 'capacitor' && c.capacitor) return `${c.capacitor.uF} µF ${c.capacitor.workingVolts} V`;
     return showValue(c.nominal);
   }
 
-  protected rating(c: Component): string {
+  protected rating(c: Part): string {
     const parts: string[] = [];
     if (c.ratedWatts !== null) parts.push(`${c.ratedWatts} W`);
     if (c.ratedVolts !== null) parts.push(`${c.ratedVolts} V`);
     return parts.join(' · ') || '—';
   }
 
-  protected componentErrors(c: Component): number {
+  protected componentErrors(c: Part): number {
     return this.store.problemsOn('component', c.key).filter((p) => p.severity === 'error').length;
   }
 
@@ -99,7 +99,7 @@ export class StagePanel {
     if (n === 0 || confirm(`Remove the stage ${st.name} with its ${st.sockets.length} sockets, ${this.components().length} components and ${this.points().length} test points?`)) this.store.removeStage(st.key);
   }
 
-  protected removeComponent(c: Component): void {
+  protected removeComponent(c: Part): void {
     if (confirm(`Remove ${c.ref} and its component checks?`)) this.store.removeComponent(c.key);
   }
 
@@ -127,7 +127,7 @@ export class StagePanel {
     queueMicrotask(() => setTimeout(() => this.rows().find((r) => r.nativeElement.dataset['key'] === tp.key)?.nativeElement.focus()));
   }
 
-  protected addCheck(c: Component): void {
+  protected addCheck(c: Part): void {
     this.store.addTestPoint(this.stage().key, { kind: 'component-check', componentKey: c.key });
   }
 
