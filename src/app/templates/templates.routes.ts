@@ -35,5 +35,10 @@ export default [
     title: 'Changes between versions · Driftmark',
     loadComponent: () => import('./version-diff/version-diff').then((m) => m.VersionDiff),
   },
-  { path: ':id/edit', loadComponent: () => import('./editor/template-editor').then((m) => m.TemplateEditor) },
+  {
+    path: ':id/edit',
+    loadComponent: () => import('./editor/template-editor').then((m) => m.TemplateEditor),
+    // Leaving with unsaved changes asks first (they also stay in this browser to restore).
+    canDeactivate: [(editor: { confirmLeave(): boolean }) => editor.confirmLeave()],
+  },
 ] satisfies Routes;
