@@ -206,6 +206,8 @@ export const templateFiles = pgTable(
     bytes: integer('bytes').notNull(),
     width: integer('width'),
     height: integer('height'),
+    /** One line of free text shown under the file ('' = none). */
+    caption: text('caption').notNull().default(''),
     createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },

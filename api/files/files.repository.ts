@@ -20,8 +20,10 @@ export async function findFile(tx: Tx, templateId: number, fileId: number): Prom
   return row;
 }
 
-export async function setStage(tx: Tx, fileId: number, stageKey: string | null): Promise<FileRow> {
-  const [row] = await tx.update(templateFiles).set({ stageKey }).where(eq(templateFiles.id, fileId)).returning();
+export type FileChangeSet = Partial<Pick<FileInsert, 'stageKey' | 'caption'>>;
+
+export async function updateFile(tx: Tx, fileId: number, set: FileChangeSet): Promise<FileRow> {
+  const [row] = await tx.update(templateFiles).set(set).where(eq(templateFiles.id, fileId)).returning();
   return row;
 }
 

@@ -1,5 +1,5 @@
 /**
- * Routes of template files. Uploads are multipart (`file`, optional `stageKey`): the path and the
+ * Routes of template files. Uploads are multipart (`file`, optional `stageKey` and `caption`): the path and the
  * content type are checked first (a 400 before any 401), then the sign-in and the owner check, and
  * only then is the body read (multer, in memory, within UPLOAD_MAX_BYTES) — an anonymous caller or
  * a non-owner never makes the server buffer a file.
@@ -12,13 +12,25 @@ import type { Request, RequestHandler } from 'express';
 import multer from 'multer';
 import { pipeline } from 'node:stream/promises';
 import type { Ctx } from '../context';
-import { badRequest } from '../http/errors';
+import { AppError, badRequest } from '../http/errors';
 import type { RouteDef } from '../http/route-table';
 import { ajv, ID, validate } from '../http/validate';
+import { line } from '../templates/template-schema';
 import * as files from './files.use-cases';
 import { contentDisposition, downloadName, IMAGE_TYPES, PDF } from './media';
 
 const STAGE_KEY = '^st-[A-Za-z0-9_-]{1,40}$';
+/** A caption: one line of free text, no markup, at most 300 characters ('' = none). */
+export const CAPTION_MAX = 300;
+const caption = line(CAPTION_MAX);
+const CAPTION_MESSAGES: Record<string, string> = {
+  pattern: '"caption" holds a control character or markup (one line of plain text).',
+  maxLength: `"caption" must be at most ${CAPTION_MAX} characters.`,
+  type: '"caption" must be a string.',
+};
+/** The message of a refused caption in words (ajv's own names the pattern). */
+const captionMessage = (keyword: string) => CAPTION_MESSAGES[keyword] ?? '"caption" is not valid.';
+const captionCheck = ajv.compile(caption);
 
 /**
  * Policies for served files (they replace the app's policy on these responses):
@@ -40,23 +52,27 @@ const INLINE_TYPES: readonly string[] = [...IMAGE_TYPES, PDF];
 
 interface UploadFields {
   stageKey?: string;
+  caption?: string;
 }
 const uploadFields = ajv.compile({
   type: 'object',
-  properties: { stageKey: { type: 'string', pattern: STAGE_KEY } },
+  properties: { stageKey: { type: 'string', pattern: STAGE_KEY }, caption },
   required: [],
   additionalProperties: false,
 } as unknown as JSONSchemaType<UploadFields>);
 
-interface MoveBody {
-  stageKey: string | null;
+interface ChangeBody {
+  stageKey?: string | null;
+  caption?: string;
 }
-const moveBody = {
+/** A move (`stageKey`, null = the whole template), a new caption, or both; at least one. */
+const changeBody = {
   type: 'object',
-  properties: { stageKey: { anyOf: [{ type: 'string', pattern: STAGE_KEY }, { type: 'null' }] } },
-  required: ['stageKey'],
+  properties: { stageKey: { anyOf: [{ type: 'string', pattern: STAGE_KEY }, { type: 'null' }] }, caption },
+  required: [],
+  minProperties: 1,
   additionalProperties: false,
-} as unknown as JSONSchemaType<MoveBody>;
+} as unknown as JSONSchemaType<ChangeBody>;
 
 /** A multipart request, or a 400 before anything else. */
 const multipartOnly: RequestHandler = (req, _res, next) => {
@@ -68,14 +84,18 @@ const MULTER_MESSAGES: Record<string, (maxBytes: number, field?: string) => [str
   LIMIT_FILE_SIZE: (max) => [`The file is larger than the limit of ${(max / 1024 / 1024).toFixed(max >= 1024 * 1024 ? 0 : 2)} MiB.`, 'file-too-large'],
   LIMIT_UNEXPECTED_FILE: (_m, field) => [`Send the file in the field "file" (one file; got one in "${field ?? '?'}").`, 'unexpected-file-field'],
   LIMIT_FILE_COUNT: () => ['Send one file per request.', 'too-many-files'],
+  LIMIT_FIELD_VALUE: (_m, field) => [`The field "${field ?? '?'}" is too long.`, 'field-too-long'],
 };
+/** multer errors that name a field of their own rather than `file`. */
+const FIELD_ERRORS = ['LIMIT_UNEXPECTED_FILE', 'LIMIT_FIELD_VALUE'];
 
 /** multer in memory within the limits; its errors (and a broken body) become 400s naming `file`. */
 function uploadParser(ctx: Ctx): RequestHandler {
   const max = ctx.config.upload.maxBytes;
   const single = multer({
     storage: multer.memoryStorage(),
-    limits: { fileSize: max, files: 1, fields: 4, parts: 6, fieldNameSize: 40, fieldSize: 200, headerPairs: 50 },
+    // fieldSize in bytes: a 300-character caption may take up to 1200 bytes of UTF-8.
+    limits: { fileSize: max, files: 1, fields: 4, parts: 6, fieldNameSize: 40, fieldSize: 2000, headerPairs: 50 },
   }).single('file');
   return (req, res, next) => {
     single(req, res, (err?: unknown) => {
@@ -83,7 +103,7 @@ function uploadParser(ctx: Ctx): RequestHandler {
       const e = err as Error & { code?: string; field?: string };
       if (e instanceof multer.MulterError) {
         const [message, code] = MULTER_MESSAGES[e.code]?.(max, e.field) ?? [`The upload was refused: ${e.message}.`, 'bad-multipart'];
-        return next(badRequest(message, e.code === 'LIMIT_UNEXPECTED_FILE' ? (e.field ?? 'file') : 'file', code));
+        return next(badRequest(message, FIELD_ERRORS.includes(e.code) ? (e.field ?? 'file') : 'file', code));
       }
       // busboy: truncated body, a missing boundary, a malformed part header.
       next(badRequest(`The multipart body cannot be read (${e.message}).`, '(body)', 'bad-multipart'));
@@ -96,6 +116,24 @@ const fileId = (req: Request) => Number(req.params.fileId);
 
 export function fileRoutes(ctx: Ctx): RouteDef[] {
   const uploadPath = validate({ params: { id: ID } });
+  const changeCheck = validate({ body: changeBody, params: { id: ID, fileId: ID } });
+  /** The shared validation, with a refused caption said in words. */
+  const validateChange: RequestHandler = (req, res, next) => {
+    let refused: unknown = null;
+    try {
+      changeCheck(req, res, (err?: unknown) => {
+        refused = err ?? null;
+      });
+    } catch (e) {
+      refused = e;
+    }
+    if (refused === null) return next();
+    const body = req.body as { caption?: unknown } | null;
+    if (refused instanceof AppError && refused.details?.field === 'caption' && !String(body?.caption).includes('\u0000') && !captionCheck(body?.caption)) {
+      throw badRequest(captionMessage(captionCheck.errors![0].keyword), 'caption', 'validation');
+    }
+    throw refused;
+  };
   const ownerGate: RequestHandler = async (req, _res, next) => {
     await files.checkCanUpload(ctx, req.signedIn!, templateId(req));
     next();
@@ -125,20 +163,24 @@ export function fileRoutes(ctx: Ctx): RouteDef[] {
       method: 'post',
       path: '/api/templates/:id/files',
       access: 'signed-in',
-      summary: 'Upload a schematic or photo (multipart: file, optional stageKey) to the template or a stage (owner)',
+      summary: 'Upload a schematic or photo (multipart: file, optional stageKey and caption) to the template or a stage (owner)',
       validate: (req, res, next) => uploadPath(req, res, (err?: unknown) => (err ? next(err) : multipartOnly(req, res, next))),
       before: [ownerGate, uploadParser(ctx)],
       handler: async (req, res) => {
         const fields: UploadFields = { ...(req.body as Record<string, string>) };
         if (!uploadFields(fields)) {
           const e = uploadFields.errors![0];
-          const field = e.keyword === 'additionalProperties' ? String((e.params as { additionalProperty: string }).additionalProperty) : 'stageKey';
-          throw badRequest(e.keyword === 'additionalProperties' ? `"${field}" is not a field this upload takes (file, stageKey).` : `"stageKey" must be a stage key such as st-audio.`, field, 'validation');
+          if (e.keyword === 'additionalProperties') {
+            const field = String((e.params as { additionalProperty: string }).additionalProperty);
+            throw badRequest(`"${field}" is not a field this upload takes (file, stageKey, caption).`, field, 'validation');
+          }
+          if (e.instancePath === '/caption') throw badRequest(captionMessage(e.keyword), 'caption', 'validation');
+          throw badRequest(`"stageKey" must be a stage key such as st-audio.`, 'stageKey', 'validation');
         }
         if (!req.file) throw badRequest('No file: send it in the multipart field "file".', 'file', 'no-file');
         if (req.file.size === 0) throw badRequest('The file is empty.', 'file', 'empty-file');
         const originalName = (req.file.originalname || 'file').replace(/[\u0000-\u001f\u007f]/g, '').slice(0, 200) || 'file';
-        res.status(201).json(await files.uploadFile(ctx, req.signedIn!, templateId(req), { bytes: req.file.buffer, originalName, stageKey: fields.stageKey }));
+        res.status(201).json(await files.uploadFile(ctx, req.signedIn!, templateId(req), { bytes: req.file.buffer, originalName, stageKey: fields.stageKey, caption: fields.caption }));
       },
     },
     {
@@ -171,10 +213,10 @@ export function fileRoutes(ctx: Ctx): RouteDef[] {
       method: 'patch',
       path: '/api/templates/:id/files/:fileId',
       access: 'signed-in',
-      summary: 'Move a file to a stage, or to the whole template with stageKey null (owner)',
-      validate: validate({ body: moveBody, params: { id: ID, fileId: ID } }),
+      summary: 'Move a file to a stage (or to the whole template with stageKey null) and/or change its caption (owner)',
+      validate: validateChange,
       handler: async (req, res) => {
-        res.json(await files.moveFile(ctx, req.signedIn!, templateId(req), fileId(req), req.body as MoveBody));
+        res.json(await files.changeFile(ctx, req.signedIn!, templateId(req), fileId(req), req.body as ChangeBody));
       },
     },
     {

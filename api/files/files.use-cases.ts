@@ -43,6 +43,7 @@ export function fileView(f: repo.FileRow, stages: Map<string, string>) {
     stageKey: f.stageKey,
     stageName: f.stageKey !== null ? (stages.get(f.stageKey) ?? null) : null,
     name: f.originalName,
+    caption: f.caption,
     mediaType: f.mediaType,
     kind: image ? ('image' as const) : f.mediaType === PDF ? ('pdf' as const) : ('other' as const),
     bytes: f.bytes,
@@ -64,6 +65,8 @@ export interface Upload {
   bytes: Buffer;
   originalName: string;
   stageKey?: string;
+  /** One line of plain text (checked at the edge); trimmed; '' or absent = none. */
+  caption?: string;
 }
 
 /** Checks the content, prepares it (images re-encoded, thumbnail), stores it and records it. */
@@ -82,6 +85,7 @@ export async function uploadFile(ctx: Deps, actor: Actor, templateId: number, u:
         stageKey: u.stageKey ?? null,
         storageKey: key,
         originalName: u.originalName,
+        caption: (u.caption ?? '').trim(),
         mediaType: p.mediaType,
         bytes: p.bytes.length,
         width: p.width,
@@ -120,13 +124,24 @@ export async function openFile(ctx: Deps, actor: Actor, templateId: number, file
   return { file, object };
 }
 
-/** Moves a file to a stage, or to the whole template (`stageKey: null`). */
-export async function moveFile(ctx: Deps, actor: Actor, templateId: number, fileId: number, body: { stageKey: string | null }) {
+export interface FileChange {
+  /** A stage, or null for the whole template; absent = where it is. */
+  stageKey?: string | null;
+  /** The new caption (trimmed; '' clears it); absent = unchanged. */
+  caption?: string;
+}
+
+/** Moves a file to a stage or to the whole template (`stageKey: null`) and/or changes its caption. */
+export async function changeFile(ctx: Deps, actor: Actor, templateId: number, fileId: number, change: FileChange) {
   return ctx.db.transaction(async (tx) => {
     ownerOnly(await visible(tx, actor, templateId, true), 'change its files');
-    await fileOf(tx, templateId, fileId);
-    await checkStage(tx, templateId, body.stageKey);
-    return fileView(await repo.setStage(tx, fileId, body.stageKey), await stagesOf(tx, templateId));
+    const file = await fileOf(tx, templateId, fileId);
+    if (change.stageKey !== undefined) await checkStage(tx, templateId, change.stageKey);
+    const set: repo.FileChangeSet = {};
+    if (change.stageKey !== undefined) set.stageKey = change.stageKey;
+    if (change.caption !== undefined) set.caption = change.caption.trim();
+    const row = Object.keys(set).length ? await repo.updateFile(tx, fileId, set) : file;
+    return fileView(row, await stagesOf(tx, templateId));
   });
 }
 

@@ -153,10 +153,12 @@ const ROUTES: Record<string, WriteRoute> = {
       const t = await makeTemplate({ ownerId: o.user.id });
       const png = await sharp({ create: { width: 8, height: 8, channels: 3, background: { r: 9, g: 9, b: 9 } } }).png().toBuffer();
       const f = await uploadFile({ db: env.database.db, storage: storageFromConfig(env.config), config: env.config }, { id: o.user.id, roles: ['author'] }, t.id, { bytes: png, originalName: 'bad-input.png' });
-      return { path: `/api/templates/${t.id}/files/${f.id}`, body: { stageKey: 'st-audio' } };
+      return { path: `/api/templates/${t.id}/files/${f.id}`, body: { stageKey: 'st-audio', caption: 'Output transformer, top view' } };
     },
-    [],
-    ['stageKey as null'],
+    // Either field alone is a change; an empty object is not.
+    ['stageKey', 'caption'],
+    // null moves to the whole template; '' clears the caption; a caption is free text (stored, never run).
+    ['stageKey as null', 'caption empty', 'caption with SQL injection'],
   ),
 };
 

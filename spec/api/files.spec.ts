@@ -343,6 +343,90 @@ describe('Template files: content, limits and headers', () => {
   });
 });
 
+describe('Template files: captions', () => {
+  let b: Backend;
+  let owner: Session;
+  beforeAll(async () => {
+    b = await fsBackend();
+    owner = await userSession(['author']);
+  });
+
+  async function captionOf(fileId: number): Promise<string | undefined> {
+    const env = await apiEnv();
+    const [row] = await env.database.db.select().from(templateFiles).where(eq(templateFiles.id, fileId));
+    return row?.caption;
+  }
+
+  it('stores a caption sent with the upload, lists it, and a file sent without one has an empty caption', async () => {
+    const t = await makeTemplate({ ownerId: owner.user.id });
+    const text = `Under-chassis view, output stage; the 0.05 µF "tone" cap is replaced`;
+    const up = await upload(b.app, owner, t.id, await png(), 'under.png', { caption: text, stageKey: 'st-audio' });
+    expect(up.status).withContext(JSON.stringify(up.body)).toBe(201);
+    expect(up.body.caption).toBe(text);
+    expect(await captionOf(up.body.id)).toBe(text);
+    const list = await request(b.app).get(`/api/templates/${t.id}/files`).set(bearer(owner));
+    expect(list.body.items[0].caption).toBe(text);
+    const bare = await upload(b.app, owner, t.id, pdf(), 'sheet.pdf');
+    expect(bare.status).toBe(201);
+    expect(bare.body.caption).toBe('');
+    expect(await captionOf(bare.body.id)).toBe('');
+  });
+
+  it('changes a caption with PATCH (the stage stays), clears it, and changes stage and caption at once', async () => {
+    const t = await makeTemplate({ ownerId: owner.user.id });
+    const up = await upload(b.app, owner, t.id, await png(), 'top.png', { caption: 'Before', stageKey: 'st-audio' });
+    const changed = await request(b.app).patch(up.body.url).set(bearer(owner)).send({ caption: '  Top view after recap  ' });
+    expect(changed.status).withContext(JSON.stringify(changed.body)).toBe(200);
+    expect(changed.body.caption).withContext('trimmed').toBe('Top view after recap');
+    expect(changed.body.stageKey).withContext('stage unchanged').toBe('st-audio');
+    expect(await captionOf(up.body.id)).toBe('Top view after recap');
+    const both = await request(b.app).patch(up.body.url).set(bearer(owner)).send({ stageKey: null, caption: '' });
+    expect(both.status).toBe(200);
+    expect([both.body.stageKey, both.body.caption]).toEqual([null, '']);
+    expect(await captionOf(up.body.id)).toBe('');
+  });
+
+  it('refuses a caption with markup, a line break or over 300 characters (the caption unchanged) beside a plain 300-character one that is taken', async () => {
+    const t = await makeTemplate({ ownerId: owner.user.id });
+    const up = await upload(b.app, owner, t.id, await png(), 'p.png', { caption: 'Kept' });
+    for (const [what, caption] of [
+      ['a tag', 'Dial <b>lamp</b>'],
+      ['a script', '<script>alert(1)</script>'],
+      ['a line break', 'two\nlines'],
+      ['301 characters', 'c'.repeat(301)],
+    ] as const) {
+      const r = await request(b.app).patch(up.body.url).set(bearer(owner)).send({ caption });
+      expect(r.status).withContext(what).toBe(400);
+      expect(r.body.error.details.field).withContext(what).toBe('caption');
+      expect(r.body.error.message).withContext(what).toMatch(/^"caption" (holds a control character or markup|must be at most 300 characters)/);
+      const onUpload = await upload(b.app, owner, t.id, await png(), 'q.png', { caption });
+      expect(onUpload.status).withContext(`upload: ${what}`).toBe(400);
+      expect(onUpload.body.error.details.field).withContext(`upload: ${what}`).toBe('caption');
+    }
+    expect(await captionOf(up.body.id)).toBe('Kept');
+    const plain = 'c'.repeat(299) + '<';
+    const ok = await request(b.app).patch(up.body.url).set(bearer(owner)).send({ caption: plain });
+    expect(ok.status).withContext(JSON.stringify(ok.body)).toBe(200);
+    expect(await captionOf(up.body.id)).toBe(plain);
+    const okUpload = await upload(b.app, owner, t.id, await png(), 'r.png', { caption: plain });
+    expect(okUpload.status).toBe(201);
+    expect(okUpload.body.caption).toBe(plain);
+  });
+
+  it('refuses an empty change and a caption that is not a string beside a change that is taken', async () => {
+    const t = await makeTemplate({ ownerId: owner.user.id });
+    const up = await upload(b.app, owner, t.id, await png(), 'p.png');
+    const empty = await request(b.app).patch(up.body.url).set(bearer(owner)).send({});
+    expect(empty.status).toBe(400);
+    const notText = await request(b.app).patch(up.body.url).set(bearer(owner)).send({ caption: 42 });
+    expect(notText.status).toBe(400);
+    expect(notText.body.error.details.field).toBe('caption');
+    const ok = await request(b.app).patch(up.body.url).set(bearer(owner)).send({ caption: 'Rear apron' });
+    expect(ok.status).toBe(200);
+    expect(ok.body.caption).toBe('Rear apron');
+  });
+});
+
 describe('Template files: who may do what', () => {
   let b: Backend;
   let owner: Session;
@@ -420,7 +504,9 @@ describe('Template files: bad multipart requests', () => {
       ['no file at all', () => raw(t.id, owner, part('stageKey', 'st-audio') + '--spec-boundary--\r\n'), 'file'],
       ['two files', () => raw(t.id, owner, part('file', pdfText, 'a.pdf') + part('file', pdfText, 'b.pdf') + '--spec-boundary--\r\n'), 'file'],
       ['an empty file', () => raw(t.id, owner, part('file', '', 'e.pdf') + '--spec-boundary--\r\n'), 'file'],
-      ['a field the upload does not take', () => raw(t.id, owner, part('caption', 'x') + part('file', pdfText, 's.pdf') + '--spec-boundary--\r\n'), 'caption'],
+      ['a field the upload does not take', () => raw(t.id, owner, part('title', 'x') + part('file', pdfText, 's.pdf') + '--spec-boundary--\r\n'), 'title'],
+      ['a caption with markup', () => raw(t.id, owner, part('caption', '<img src=x onerror=alert(1)>') + part('file', pdfText, 's.pdf') + '--spec-boundary--\r\n'), 'caption'],
+      ['a caption longer than the field limit', () => raw(t.id, owner, part('caption', 'y'.repeat(3000)) + part('file', pdfText, 's.pdf') + '--spec-boundary--\r\n'), 'caption'],
       ['a stage key of the wrong shape', () => raw(t.id, owner, part('stageKey', "' OR 1=1 --") + part('file', pdfText, 's.pdf') + '--spec-boundary--\r\n'), 'stageKey'],
       ['a text file named .png', () => raw(t.id, owner, part('file', 'just words', 'photo.png', 'image/png') + '--spec-boundary--\r\n'), 'file'],
       ['JSON instead of multipart', () => raw(t.id, owner, JSON.stringify({ file: 'x' }), 'application/json'), '(body)'],
@@ -435,8 +521,9 @@ describe('Template files: bad multipart requests', () => {
       expect(r.body.error?.details?.field).withContext(what).toBe(field);
     }
     expect(await tableState(env.database.db)).withContext('tables after the malformed uploads').toEqual(before);
-    const ok = await raw(t.id, owner, part('stageKey', 'st-audio') + part('file', pdfText, 's.pdf', 'application/pdf') + '--spec-boundary--\r\n');
+    const ok = await raw(t.id, owner, part('stageKey', 'st-audio') + part('caption', 'Chassis, 1 < 2') + part('file', pdfText, 's.pdf', 'application/pdf') + '--spec-boundary--\r\n');
     expect(ok.status).withContext(JSON.stringify(ok.body)).toBe(201);
+    expect(ok.body.caption).toBe('Chassis, 1 < 2');
   });
 
   it('a request that is not multipart is a 400 before an anonymous caller gets a 401', async () => {

@@ -1,0 +1,1 @@
+ALTER TABLE "template_files" ADD COLUMN "caption" text DEFAULT '' NOT NULL;
