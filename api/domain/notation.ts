@@ -355,11 +355,24 @@ function formatPlain(n: number): string {
   return text;
 }
 
+/**
+ * Formatting a value costs a few string conversions, and a survey formats the same nominals and
+ * thresholds over and over (every verdict's explanation names its band): a small cache of the
+ * scaled text, emptied when full, keeps a whole-survey recompute cheap.
+ */
+const SCALED = new Map<number, { text: string; exp: 0 | 3 | 6 | 9 }>();
+const SCALED_MAX = 4096;
+
 function scaleForDisplay(ohms: number): { text: string; exp: 0 | 3 | 6 | 9 } {
+  const known = SCALED.get(ohms);
+  if (known) return known;
   if (!Number.isFinite(ohms) || ohms < 0) throw new RangeError(`cannot format ${ohms} as a resistance`);
   const clean = Number(ohms.toPrecision(12));
   const exp = clean >= 1e9 ? 9 : clean >= 1e6 ? 6 : clean >= 1e3 ? 3 : 0;
-  return { text: formatPlain(clean / 10 ** exp), exp };
+  const scaled = { text: formatPlain(clean / 10 ** exp), exp };
+  if (SCALED.size >= SCALED_MAX) SCALED.clear();
+  SCALED.set(ohms, scaled);
+  return scaled;
 }
 
 const PREFIX: Readonly<Record<0 | 3 | 6 | 9, string>> = { 0: '', 3: 'k', 6: 'M', 9: 'G' };

@@ -56,9 +56,23 @@ export function checkReading(req: VerdictRequest): VerdictResponse {
     reading = { state: parsed.state, ohms: parsed.ohms, display: parsed.display, warnings: parsed.warnings, notes: parsed.notes };
   }
   try {
-    const { serviceDataYear: _y, reading: _r, ...rest } = req;
-    const result = judge({ ...rest, reading: { state: reading.state, ohms: reading.ohms } });
-    return { ...result, reading };
+    // Fields copied one by one (no object rest/spread: this runs for every reading of a survey).
+    const input: VerdictInput = {
+      expected: req.expected,
+      reading: { state: reading.state, ohms: reading.ohms },
+      tolerancePct: req.tolerancePct,
+      band: req.band,
+      critical: req.critical,
+      kind: req.kind,
+      method: req.method,
+      rangeIndex: req.rangeIndex,
+      rule: req.rule,
+      meter: req.meter,
+      thresholds: req.thresholds,
+    };
+    const result = judge(input) as VerdictResponse;
+    result.reading = reading;
+    return result;
   } catch (e) {
     if (e instanceof VerdictInputError) {
       const first = e.problems[0];

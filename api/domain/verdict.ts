@@ -534,6 +534,16 @@ function definedOnly<T extends object>(o: T): Partial<T> {
   return out as Partial<T>;
 }
 
+// Module-level helpers rather than closures inside judge(): judge runs once per reading of a
+// survey, and a closure per call costs an allocation (and, under tsx, a name definition).
+function addNote(notes: ExplanationNote[], code: NoteCode, text: string): void {
+  notes.push({ code, text });
+}
+
+function inBandOf(band: { lowOhms: number; highOhms: number | null }, y: number): boolean {
+  return y >= band.lowOhms && (band.highOhms === null || y <= band.highOhms);
+}
+
 /** Judge one reading. Throws VerdictInputError for input it cannot judge. */
 export function judge(input: VerdictInput): VerdictResult {
   const problems = verdictInputProblems(input);
@@ -550,21 +560,20 @@ export function judge(input: VerdictInput): VerdictResult {
   const band = chooseBand(input, rule, thresholds);
   const applied: DecisionRule = meter ? rule.decision : 'simple';
   const notes: ExplanationNote[] = [];
-  const note = (code: NoteCode, text: string) => notes.push({ code, text });
 
-  if (!meter) note('no-meter', 'no meter profile: no uncertainty is known, so no U and no probability of conformity');
-  if (rule.decision === 'guarded' && !meter) note('guarded-needs-meter', 'the guarded rule needs a meter profile to know U: the simple rule was applied');
-  if (band.basis === 'default-tolerance') note('default-tolerance', `no tolerance given: ±${DEFAULT_TOLERANCE_PCT} % assumed (IEC 60062: no tolerance band)`);
+  if (!meter) addNote(notes, 'no-meter', 'no meter profile: no uncertainty is known, so no U and no probability of conformity');
+  if (rule.decision === 'guarded' && !meter) addNote(notes, 'guarded-needs-meter', 'the guarded rule needs a meter profile to know U: the simple rule was applied');
+  if (band.basis === 'default-tolerance') addNote(notes, 'default-tolerance', `no tolerance given: ±${DEFAULT_TOLERANCE_PCT} % assumed (IEC 60062: no tolerance band)`);
   if (band.basis === 'default-allowance') {
-    note('default-allowance', `no allowance given: ${DEFAULT_ALLOWANCE.lowPct} %/+${DEFAULT_ALLOWANCE.highPct} % assumed (common practice)`);
+    addNote(notes, 'default-allowance', `no allowance given: ${DEFAULT_ALLOWANCE.lowPct} %/+${DEFAULT_ALLOWANCE.highPct} % assumed (common practice)`);
   }
   if (band.basis === 'template-band' && input.tolerancePct !== undefined) {
-    note('band-over-tolerance', 'the template’s asymmetric band was used rather than its symmetric tolerance');
+    addNote(notes, 'band-over-tolerance', 'the template’s asymmetric band was used rather than its symmetric tolerance');
   }
   if (continuity) {
-    note('continuity', CONTINUITY_TEXT);
+    addNote(notes, 'continuity', CONTINUITY_TEXT);
     if (input.kind === 'heater' || input.kind === 'lamp') {
-      note('cold-resistance', 'a cold heater or lamp reads far below its hot V/I value (roughly 1/5 to 1/10, from memory): judge continuity, never against V/I');
+      addNote(notes, 'cold-resistance', 'a cold heater or lamp reads far below its hot V/I value (roughly 1/5 to 1/10, from memory): judge continuity, never against V/I');
     }
   }
 
@@ -573,9 +582,9 @@ export function judge(input: VerdictInput): VerdictResult {
   let corrected: number | null = null;
   if (displayed !== null) {
     corrected = displayed - lead;
-    if (lead > 0) note('lead-subtracted', `lead resistance ${fmt(lead)} subtracted from the displayed ${fmt(displayed)}`);
+    if (lead > 0) addNote(notes, 'lead-subtracted', `lead resistance ${fmt(lead)} subtracted from the displayed ${fmt(displayed)}`);
     if (corrected < 0) {
-      note('negative-after-lead', 'the reading is below the lead resistance: taken as 0 Ω');
+      addNote(notes, 'negative-after-lead', 'the reading is below the lead resistance: taken as 0 Ω');
       corrected = 0;
     }
   }
@@ -584,7 +593,7 @@ export function judge(input: VerdictInput): VerdictResult {
   let mu: MeasurementUncertainty | null = null;
   if (meter && displayed !== null) {
     mu = measurementUncertainty(meter, displayed, input.rangeIndex, thresholds.residualContactOhms);
-    if (mu.UOhms === null) note('unbounded-above', 'the reading sits where the scale’s upper limit is unbounded (θ ≤ δ): no finite U; use a higher range');
+    if (mu.UOhms === null) addNote(notes, 'unbounded-above', 'the reading sits where the scale’s upper limit is unbounded (θ ≤ δ): no finite U; use a higher range');
   }
   const guard = meter && applied === 'guarded' ? guardLimits(band, meter, input.rangeIndex, thresholds.residualContactOhms) : null;
 
@@ -601,58 +610,57 @@ export function judge(input: VerdictInput): VerdictResult {
     };
   }
 
-  const inBand = (y: number) => y >= band.lowOhms && (band.highOhms === null || y <= band.highOhms);
 
   const judgeOverRange = (): Outcome => {
     if (isCountedAsOpen(meter, input.rangeIndex)) {
-      note('over-range-counts-as-open', !meter ? 'no meter profile: over-range counts as open' : 'over-range on an autoranging meter or on its top range counts as open');
+      addNote(notes, 'over-range-counts-as-open', !meter ? 'no meter profile: over-range counts as open' : 'over-range on an autoranging meter or on its top range counts as open');
       return outcome(expected === 'open' ? 'in-band' : 'open');
     }
     const m = meter as MeterProfile;
     if (input.rangeIndex === undefined) {
-      note('over-range-range-unknown', 'over-range on a manually ranged meter with no range recorded: record the range, or take a higher one');
+      addNote(notes, 'over-range-range-unknown', 'over-range on a manually ranged meter with no range recorded: record the range, or take a higher one');
       return outcome('not-read', 'over-range');
     }
     const shown = rangeTopOhms(m, input.rangeIndex);
     const top = shown - lead;
     if (expected === 'open') {
       if (top >= band.lowOhms) {
-        note('over-range-above-open-threshold', `over the range’s ${fmt(shown)}, at or above the open threshold ${fmt(band.lowOhms)}`);
+        addNote(notes, 'over-range-above-open-threshold', `over the range’s ${fmt(shown)}, at or above the open threshold ${fmt(band.lowOhms)}`);
         return outcome('in-band');
       }
-      note('over-range-below-band', `over the range’s ${fmt(shown)} only, below the open threshold: take a higher range`);
+      addNote(notes, 'over-range-below-band', `over the range’s ${fmt(shown)} only, below the open threshold: take a higher range`);
       return outcome('not-read', 'over-range');
     }
     if (band.highOhms !== null && top > band.highOhms) {
       if (guard && guard.rejectionHighOhms !== null && top < guard.rejectionHighOhms) {
-        note('over-range-above-band', `over the range’s ${fmt(shown)}: above the band, but within U of its upper limit`);
+        addNote(notes, 'over-range-above-band', `over the range’s ${fmt(shown)}: above the band, but within U of its upper limit`);
         return outcome('inconclusive', 'guard-band', 'conditional-fail');
       }
-      note('over-range-above-band', `over the range’s ${fmt(shown)}, which is above the band’s upper limit ${fmt(band.highOhms)}`);
+      addNote(notes, 'over-range-above-band', `over the range’s ${fmt(shown)}, which is above the band’s upper limit ${fmt(band.highOhms)}`);
       return outcome('high');
     }
-    note('over-range-below-band', `over the range’s ${fmt(shown)} only, which does not reach past the band: take a higher range`);
+    addNote(notes, 'over-range-below-band', `over the range’s ${fmt(shown)} only, which does not reach past the band: take a higher range`);
     return outcome('not-read', 'over-range');
   };
 
   const judgeValue = (y: number): Outcome => {
     if (y <= thresholds.shortOhms && band.lowOhms > thresholds.shortOhms) {
-      note('numeric-short', `${fmt(y)} is at or below the short threshold ${fmt(thresholds.shortOhms)} (plus the lead resistance, as displayed)`);
+      addNote(notes, 'numeric-short', `${fmt(y)} is at or below the short threshold ${fmt(thresholds.shortOhms)} (plus the lead resistance, as displayed)`);
       return outcome('short');
     }
     if (y >= thresholds.openOhms && band.highOhms !== null && band.highOhms < thresholds.openOhms) {
-      note('numeric-open', `${fmt(y)} is at or above the open threshold ${fmt(thresholds.openOhms)}`);
+      addNote(notes, 'numeric-open', `${fmt(y)} is at or above the open threshold ${fmt(thresholds.openOhms)}`);
       return outcome('open');
     }
     if (guard) {
       if (y < guard.rejectionLowOhms) return outcome('low');
       if (guard.rejectionHighOhms !== null && y > guard.rejectionHighOhms) return outcome('high');
       if (guard.acceptanceZoneEmpty) {
-        note('meter-cannot-decide', 'U at the band’s limits is as wide as the band: this meter and range cannot decide this band; use a better range or meter');
-        return outcome('inconclusive', 'meter-cannot-decide', inBand(y) ? 'conditional-pass' : 'conditional-fail');
+        addNote(notes, 'meter-cannot-decide', 'U at the band’s limits is as wide as the band: this meter and range cannot decide this band; use a better range or meter');
+        return outcome('inconclusive', 'meter-cannot-decide', inBandOf(band, y) ? 'conditional-pass' : 'conditional-fail');
       }
       const accepted = y >= guard.acceptanceLowOhms && (guard.acceptanceHighOhms === null || y <= guard.acceptanceHighOhms);
-      if (!accepted) return outcome('inconclusive', 'guard-band', inBand(y) ? 'conditional-pass' : 'conditional-fail');
+      if (!accepted) return outcome('inconclusive', 'guard-band', inBandOf(band, y) ? 'conditional-pass' : 'conditional-fail');
     } else {
       if (y < band.lowOhms) return outcome('low');
       if (band.highOhms !== null && y > band.highOhms) return outcome('high');
@@ -684,20 +692,20 @@ export function judge(input: VerdictInput): VerdictResult {
     default:
       result = judgeValue(corrected as number);
   }
-  if (state !== 'value') note('state-reading', `reading state \`${state}\`: judged by its state; no drift`);
+  if (state !== 'value') addNote(notes, 'state-reading', `reading state \`${state}\`: judged by its state; no drift`);
 
   // An in-circuit component check without a network (DESIGN.md §3.5, last bullet). A chart
   // reading (no `kind`) already expects the in-circuit value and is judged as it is.
   if (input.method === 'in-circuit' && componentCheck && corrected !== null) {
     if (result.verdict === 'short') {
-      note('in-circuit-short', 'a short across a resistor in circuit points first at a shorted capacitor in parallel: lift a lead to confirm');
+      addNote(notes, 'in-circuit-short', 'a short across a resistor in circuit points first at a shorted capacitor in parallel: lift a lead to confirm');
     } else if (corrected < band.lowOhms) {
-      note('unexplained-in-circuit', 'low in circuit: a parallel path may explain it; lift a lead to decide');
+      addNote(notes, 'unexplained-in-circuit', 'low in circuit: a parallel path may explain it; lift a lead to decide');
       result = outcome('inconclusive', 'unexplained-in-circuit');
     } else if (band.highOhms !== null && corrected > band.highOhms) {
-      note('in-circuit-path-high', 'the path is high: check the joints and contacts, then the part');
+      addNote(notes, 'in-circuit-path-high', 'the path is high: check the joints and contacts, then the part');
     } else if (result.verdict === 'in-band' || result.verdict === 'near-limit') {
-      note('in-circuit-not-low', 'in circuit: not low; high not ruled out');
+      addNote(notes, 'in-circuit-not-low', 'in circuit: not low; high not ruled out');
     }
   }
 
@@ -705,9 +713,9 @@ export function judge(input: VerdictInput): VerdictResult {
   let conformity: VerdictExplanation['conformity'] = null;
   if (corrected !== null && mu && mu.ucOhms !== null) {
     conformity = { probability: conformityProbability(band, corrected, mu.ucOhms), uOhms: mu.ucOhms, method: CONFORMITY_METHOD };
-    note('normal-approximation', 'p_c is a normal approximation (JCGM 106:2012 §7) with u at the reading');
+    addNote(notes, 'normal-approximation', 'p_c is a normal approximation (JCGM 106:2012 §7) with u at the reading');
   }
-  if (mu && mu.UOhms !== null) note('coverage-factor', `U = ${COVERAGE_FACTOR}·u_c (coverage factor ${COVERAGE_FACTOR}); for a rectangular limit this is not a 95 % interval`);
+  if (mu && mu.UOhms !== null) addNote(notes, 'coverage-factor', `U = ${COVERAGE_FACTOR}·u_c (coverage factor ${COVERAGE_FACTOR}); for a rectangular limit this is not a 95 % interval`);
 
   const driftPct = typeof expected === 'number' && corrected !== null ? ((corrected - expected) / expected) * 100 : null;
   const range =
