@@ -369,7 +369,7 @@ function scaleForDisplay(ohms: number): { text: string; exp: 0 | 3 | 6 | 9 } {
   if (!Number.isFinite(ohms) || ohms < 0) throw new RangeError(`cannot format ${ohms} as a resistance`);
   const clean = Number(ohms.toPrecision(12));
   const exp = clean >= 1e9 ? 9 : clean >= 1e6 ? 6 : clean >= 1e3 ? 3 : 0;
-  const scaled = { text: formatPlain(clean / 10 ** exp), exp };
+  const scaled: { text: string; exp: 0 | 3 | 6 | 9 } = { text: formatPlain(clean / 10 ** exp), exp };
   if (SCALED.size >= SCALED_MAX) SCALED.clear();
   SCALED.set(ohms, scaled);
   return scaled;
