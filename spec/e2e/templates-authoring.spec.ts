@@ -156,7 +156,7 @@ describe('Chassis templates: the author', () => {
     expect(await changed.count()).toBe(1);
     expect((await changed.locator('strong').first().textContent())!).toContain('R2');
     const fields = (await changed.locator('ul.fields li').allTextContents()).map((s) => s.replace(/\s+/g, ' ').trim());
-    expect(fields).toEqual(['nominal: 4.7 kΩ → 5.6 kΩ']);
+    expect(fields).toEqual(['nominal: 4.7 kΩ (4K7) → 5.6 kΩ (5K6)']); // the value and the letter code as typed
     expect(await components.locator('li.row').filter({ hasText: 'R1' }).count()).toBe(0);
 
     // Retire version 1: it says so, with the reason; version 2 stays published.
@@ -167,10 +167,11 @@ describe('Chassis templates: the author', () => {
     await retire.getByRole('textbox', { name: 'Reason' }).fill('Superseded: wrong R2 value');
     await retire.getByRole('button', { name: 'Retire' }).click();
     await page.getByText('Version 1 is retired.').waitFor();
-    const v1 = versions.filter({ hasText: 'Version 1' });
+    const version = (n: number) => versions.filter({ has: page.locator('strong', { hasText: new RegExp(`^Version ${n}$`) }) });
+    const v1 = version(1);
     await v1.filter({ hasText: 'Superseded: wrong R2 value' }).waitFor();
     expect((await v1.locator('.state').textContent())!).toContain('retired');
-    expect((await versions.filter({ hasText: 'Version 2' }).locator('.state').textContent())!).toContain('published');
+    expect((await version(2).locator('.state').textContent())!).toContain('published');
     expect(await page.getByRole('button', { name: 'Retire version 1' }).count()).toBe(0);
     expect(await page.getByRole('button', { name: 'Retire version 2' }).count()).toBe(1);
     expectClean(watch, 'author authoring');
