@@ -1,7 +1,7 @@
 import { TestBed } from '@angular/core/testing';
 import { BASE_GEOMETRIES, BASE_NAMES } from '@domain/base-geometry';
 import type { TubePin } from '@domain/template-format';
-import { SocketView } from './socket-view';
+import { SOCKET_VIEWBOX, SocketView, wrapLabel } from './socket-view';
 
 /** A 12AX7 as the seed library has it (noval): pins 1–9. */
 const TWELVE_AX7: TubePin[] = [
@@ -36,6 +36,21 @@ async function render(base: string, pins: readonly TubePin[], marks: Record<numb
   await fixture.whenStable();
   return { fixture, el: fixture.nativeElement as HTMLElement };
 }
+
+/**
+ * A 12BE6 pentagrid converter (7-pin miniature) with long labels; pin functions from memory of the
+ * usual data-sheet base diagram: 1 grid 3 (signal), 2 cathode and grid 5, 3–4 heater, 5 plate,
+ * 6 grids 2 and 4 (screen), 7 grid 1 (oscillator).
+ */
+const TWELVE_BE6: TubePin[] = [
+  { pin: 1, electrode: 'g3', label: 'grid 3 (signal grid)' },
+  { pin: 2, electrode: 'k', label: 'cathode and grid 5 (suppressor)' },
+  { pin: 3, electrode: 'h', label: 'heater' },
+  { pin: 4, electrode: 'h', label: 'heater' },
+  { pin: 5, electrode: 'p', label: 'plate' },
+  { pin: 6, electrode: 'g2', label: 'grids 2 and 4 (screen)' },
+  { pin: 7, electrode: 'g1', label: 'grid 1 (oscillator grid) of the converter section' },
+];
 
 const pinEl = (el: HTMLElement, n: number) => el.querySelector(`g.pin[data-pin="${n}"]`) as SVGGElement;
 
@@ -105,6 +120,37 @@ describe('SocketView', () => {
     expect(selected).toEqual([7, 3]);
     pinEl(el, 9).dispatchEvent(new MouseEvent('click', { bubbles: true }));
     expect(selected).toEqual([7, 3, 9]);
+  });
+
+  it('keeps long labels inside the drawing: wrapped onto a second line, the full words in the aria-label and the title', async () => {
+    const { el } = await render('miniature-7', TWELVE_BE6);
+    const box = SOCKET_VIEWBOX;
+    for (const pin of TWELVE_BE6) {
+      const label = pinEl(el, pin.pin).querySelector<SVGTextElement>('.pin-label')!;
+      const b = label.getBBox();
+      expect(b.x).withContext(`pin ${pin.pin} left edge`).toBeGreaterThanOrEqual(box.x);
+      expect(b.x + b.width).withContext(`pin ${pin.pin} right edge`).toBeLessThanOrEqual(box.x + box.width);
+      expect(b.y).withContext(`pin ${pin.pin} top`).toBeGreaterThanOrEqual(box.y);
+      expect(b.y + b.height).withContext(`pin ${pin.pin} bottom`).toBeLessThanOrEqual(box.y + box.height);
+      expect(pinEl(el, pin.pin).querySelector('title')?.textContent).toBe(`pin ${pin.pin}, ${pin.label}`);
+    }
+    const six = pinEl(el, 6);
+    expect(Array.from(six.querySelectorAll('.electrode')).map((t) => t.textContent?.trim())).toEqual(['grids 2 and 4', '(screen)']);
+    expect(six.getAttribute('aria-label')).toBe('pin 6, grids 2 and 4 (screen)');
+    // Too long for two lines: shortened with an ellipsis; the title keeps every word.
+    const seven = Array.from(pinEl(el, 7).querySelectorAll('.electrode')).map((t) => t.textContent?.trim());
+    expect(seven.length).toBe(2);
+    expect(seven[1]).toMatch(/…$/);
+    // A short label stays one line.
+    expect(pinEl(el, 5).querySelectorAll('.electrode').length).toBe(1);
+  });
+
+  it('wraps a label between words, cuts a word longer than a line, and shortens what does not fit', () => {
+    expect(wrapLabel('heater')).toEqual({ lines: ['heater'], shortened: false });
+    expect(wrapLabel('grids 2 and 4 (screen)')).toEqual({ lines: ['grids 2 and 4', '(screen)'], shortened: false });
+    expect(wrapLabel('abcdefghij', 4, 3)).toEqual({ lines: ['abcd', 'efgh', 'ij'], shortened: false });
+    expect(wrapLabel('one two three four', 7, 2)).toEqual({ lines: ['one two', 'three…'], shortened: true });
+    expect(wrapLabel('one two three four', 5, 2)).toEqual({ lines: ['one', 'two…'], shortened: true });
   });
 
   it('says so when the base is unknown, and draws nothing', async () => {

@@ -58,6 +58,8 @@ describe('TemplateDetail', () => {
     doc.chassis.hotChassis = power === 'ac-dc';
     (await nextRequest(http, '/api/templates/11/versions/2')).flush({ ...t.versions[0], templateId: 11, content: doc });
     (await nextRequest(http, '/api/tube-types/12AV6')).flush(TUBE);
+    // One list of files for the page's strips (the template's and each stage's).
+    (await nextRequest(http, '/api/templates/11/files')).flush({ templateId: 11, items: [] });
     await nextTask();
     await fixture.whenStable();
   }

@@ -28,6 +28,7 @@ import { CorrectionData, CorrectionDialog } from './correction-dialog';
 import { NoteData, NoteDialog } from './note-dialog';
 import { PublishData, PublishDialog } from './publish-dialog';
 import { SharingDialog } from './sharing-dialog';
+import { TemplateFiles } from '../files/template-files';
 import { VersionContent } from './version-content';
 
 type Loaded<T> = { state: 'loading' } | { state: 'ok'; value: T } | { state: 'failed'; status: number; message: string };
@@ -35,7 +36,7 @@ type Loaded<T> = { state: 'loading' } | { state: 'ok'; value: T } | { state: 'fa
 /** `/templates/:id`: chassis facts, versions, the actions the caller may take, and a read-only version. */
 @Component({
   selector: 'dm-template-detail',
-  imports: [DatePipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, MatFormFieldModule, MatSelectModule, VersionContent],
+  imports: [DatePipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, MatFormFieldModule, MatSelectModule, VersionContent, TemplateFiles],
   templateUrl: './template-detail.html',
   styleUrl: './template-detail.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -73,6 +74,8 @@ export class TemplateDetail {
     return c.state === 'ok' ? c.value : null;
   });
   protected readonly tubes = signal<ReadonlyMap<string, TubeType>>(new Map());
+  /** The stages a file may be moved to: those of the version shown. */
+  protected readonly stageChoices = computed(() => this.doc()?.stages.map((s) => ({ key: s.key, name: s.name })) ?? []);
   protected readonly corrections = signal<readonly Correction[]>([]);
   protected readonly busy = signal(false);
 

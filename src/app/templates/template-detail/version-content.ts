@@ -3,6 +3,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { baseGeometry } from '@domain/base-geometry';
 import type { Component as Part, TemplateDocument, TestPoint, TubePin } from '@domain/template-format';
 import { SocketView } from '../../shared/socket-view/socket-view';
+import { TemplateFiles } from '../files/template-files';
 import {
   TEST_POINT_KIND_LABELS,
   VALUE_SOURCE_LABELS,
@@ -28,7 +29,7 @@ interface SocketRow {
 /** A read-only view of one version's document: stages with sockets, components, test points, capacitors. */
 @Component({
   selector: 'dm-version-content',
-  imports: [MatIconModule, SocketView],
+  imports: [MatIconModule, SocketView, TemplateFiles],
   templateUrl: './version-content.html',
   styleUrl: './version-content.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -37,6 +38,10 @@ export class VersionContent {
   readonly content = input.required<TemplateDocument>();
   /** The tube types the sockets name, by designation (missing: not in the library). */
   readonly tubes = input<ReadonlyMap<string, TubeType>>(new Map());
+  /** The template whose stage files are shown under each stage (none when null). */
+  readonly templateId = input<number | null>(null);
+  /** The owner uploads, moves and deletes stage files here too. */
+  readonly canEditFiles = input(false);
 
   protected readonly tpKinds = TEST_POINT_KIND_LABELS;
   protected readonly valueSources = VALUE_SOURCE_LABELS;
@@ -61,6 +66,7 @@ export class VersionContent {
     }));
   });
 
+  protected readonly stageChoices = computed(() => this.content().stages.map((s) => ({ key: s.key, name: s.name })));
   protected readonly stageNames = computed(() => new Map(this.content().stages.map((s) => [s.key, s.name])));
   protected readonly capacitors = computed(() => capacitorsOf(this.content()));
   protected readonly pinPoints = computed(() => {

@@ -10,6 +10,7 @@ import { inCircuitText, loweredText, parallelRefs } from '../expected-words';
 import { showValue } from '../nominal-entry';
 import { PastePanel } from '../paste-panel/paste-panel';
 import { TestPointForm } from '../test-point-form/test-point-form';
+import { TemplateFiles } from '../../files/template-files';
 
 const KIND_SHORT: Readonly<Record<string, string>> = {
   'carbon-composition': 'carbon comp.',
@@ -20,7 +21,7 @@ const KIND_SHORT: Readonly<Record<string, string>> = {
 /** One stage: its sockets, components and test points (bench order), with the network's expectations. */
 @Component({
   selector: 'dm-stage-panel',
-  imports: [CdkDropList, CdkDrag, CdkDragHandle, MatButtonModule, MatIconModule, MatMenuModule, ComponentForm, TestPointForm, PastePanel],
+  imports: [CdkDropList, CdkDrag, CdkDragHandle, MatButtonModule, MatIconModule, MatMenuModule, ComponentForm, TestPointForm, PastePanel, TemplateFiles],
   templateUrl: './stage-panel.html',
   styleUrls: ['../editor-forms.scss', './stage-panel.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -32,6 +33,9 @@ export class StagePanel {
   protected readonly points = computed(() => this.store.doc()!.testPoints.filter((t) => t.stageKey === this.stage().key));
   protected readonly pasting = signal(false);
   protected readonly bulkMessage = signal<string | null>(null);
+  /** The stage's files load when the author opens them (the panel stays quiet otherwise). */
+  protected readonly filesOpen = signal(false);
+  protected readonly stageChoices = computed(() => this.store.doc()!.stages.map((s) => ({ key: s.key, name: s.name })));
   private readonly rows = viewChildren<ElementRef<HTMLElement>>('pointRow');
 
   protected kindWord(kind: string): string {
