@@ -37,6 +37,8 @@ export const CONTENT_SECURITY_POLICY = {
   fontSrc: ["'self'"],
   connectSrc: ["'self'"],
   workerSrc: ["'self'"],
+  // Schematics (PDF) open in a frame from a blob: URL the app made from the fetched file.
+  frameSrc: ["'self'", 'blob:'],
   manifestSrc: ["'self'"],
   objectSrc: ["'none'"],
   baseUri: ["'self'"],
