@@ -22,8 +22,16 @@ export interface CorrectionInput {
   note: string;
 }
 
-function shape(c: repo.CorrectionRow) {
+/** How a person names the target: the component's reference, or the test point's bench position. */
+function targetLabel(doc: TemplateDocument | undefined, kind: string, key: string): string {
+  if (kind === 'component') return `component ${doc?.components.find((x) => x.key === key)?.ref ?? key}`;
+  const i = doc?.testPoints.findIndex((t) => t.key === key) ?? -1;
+  return i >= 0 ? `test point ${i + 1}` : `test point ${key}`;
+}
+
+function shape(c: repo.CorrectionRow, doc?: TemplateDocument) {
   return {
+    targetLabel: targetLabel(doc, c.targetKind, c.targetKey),
     id: c.id,
     templateId: c.templateId,
     versionNumber: c.versionNumber,
@@ -76,7 +84,7 @@ export async function proposeCorrection(ctx: Deps, actor: Actor, id: number, inp
       note: input.note.trim(),
       authorId: actor.id,
     });
-    return shape((await repo.findCorrection(tx, id, cid))!);
+    return shape((await repo.findCorrection(tx, id, cid))!, doc);
   });
 }
 
@@ -84,7 +92,10 @@ export async function proposeCorrection(ctx: Deps, actor: Actor, id: number, inp
 export async function listCorrections(ctx: Deps, actor: Actor, id: number) {
   const a = await visible(ctx.db, actor, id);
   const rows = await repo.listCorrections(ctx.db, id, a.owner || a.admin ? null : actor.id);
-  return { items: rows.map(shape) };
+  // Each correction's target is named in the version it was written against.
+  const docs = new Map<number, TemplateDocument | undefined>();
+  for (const n of new Set(rows.map((r) => r.versionNumber))) docs.set(n, (await repo.findVersion(ctx.db, id, n))?.content as TemplateDocument | undefined);
+  return { items: rows.map((r) => shape(r, docs.get(r.versionNumber))) };
 }
 
 export async function decideCorrection(ctx: Deps, actor: Actor, id: number, correctionId: number, body: { decision: 'accept' | 'decline'; note?: string }) {
@@ -93,11 +104,12 @@ export async function decideCorrection(ctx: Deps, actor: Actor, id: number, corr
     ownerOnly(a, 'decide corrections');
     const c = await repo.findCorrection(tx, id, correctionId, true);
     if (!c) throw notFound('No such correction.');
+    const against = (await repo.findVersion(tx, id, c.versionNumber))?.content as TemplateDocument | undefined;
     if (c.state !== 'open') throw conflict(`This correction is ${c.state} already.`, 'correction-decided', { state: c.state });
     const note = body.note?.trim() || null;
     if (body.decision === 'decline') {
       await repo.decideCorrection(tx, c.id, 'declined', actor.id, note);
-      return { correction: shape((await repo.findCorrection(tx, id, c.id))!), draft: null };
+      return { correction: shape((await repo.findCorrection(tx, id, c.id))!, against), draft: null };
     }
     const draft = (await repo.findDraft(tx, id)) ?? (await repo.latestSnapshot(tx, id));
     const applied = applyChange(draft!.content as TemplateDocument, c.targetKind, c.targetKey, c.change as Record<string, unknown>);
@@ -107,6 +119,6 @@ export async function decideCorrection(ctx: Deps, actor: Actor, id: number, corr
       throw new AppError(409, 'correction-does-not-apply', `Applied to the draft, the correction leaves a problem: "${problems[0].path}" ${problems[0].message}`, { field: problems[0].path, problems });
     const revision = await writeDraft(tx, a.t, canonicalDocument(applied.doc));
     await repo.decideCorrection(tx, c.id, 'accepted', actor.id, note);
-    return { correction: shape((await repo.findCorrection(tx, id, c.id))!), draft: { revision } };
+    return { correction: shape((await repo.findCorrection(tx, id, c.id))!, against), draft: { revision } };
   });
 }

@@ -432,6 +432,10 @@ describe('Chassis templates', () => {
       expect(techList.body.items.map((c: { id: number; state: string; decisionNote: string }) => [c.id, c.state, c.decisionNote])).toEqual([[mine.body.id, 'declined', 'The sheet says 20 %.']]);
       const ownerList = await request(env.app).get(`/api/templates/${t.id}/corrections`).set(bearer(author));
       expect(ownerList.body.items.map((c: { id: number }) => c.id).sort()).toEqual([mine.body.id, theirs.body.id].sort());
+      // Each target is named as a person names it in the correction's own version.
+      const labels = new Map(ownerList.body.items.map((c: { id: number; targetLabel: string }) => [c.id, c.targetLabel]));
+      expect(labels.get(theirs.body.id)).toBe('component R1');
+      expect(labels.get(mine.body.id)).toMatch(/^test point \d+$/);
       // Only the owner decides: the sender may see the template but may not decide (403).
       const bySender = await request(env.app).post(`/api/templates/${t.id}/corrections/${theirs.body.id}/decision`).set(bearer(tech)).send({ decision: 'accept' });
       expect(bySender.status).toBe(403);

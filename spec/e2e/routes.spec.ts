@@ -150,7 +150,7 @@ describe('Every route of the app', () => {
     await shot(page, 'phone-home-admin');
     await visit(page, '/admin/users', 'Users', 'Users · Driftmark');
     // On a phone the e-mail sits under the name, and the navigation folds into a menu.
-    await page.getByText(DEMO.student, { exact: true }).waitFor();
+    await page.locator('td .sub', { hasText: DEMO.student }).waitFor();
     expect(await page.getByRole('button', { name: 'Menu' }).count()).toBe(1);
     expect(await fits()).withContext('admin users').toBeTrue();
     await shot(page, 'phone-admin-users');

@@ -134,6 +134,8 @@ export interface TemplateDiff {
 
 export interface Correction {
   readonly id: number;
+  /** The target as a person names it in the correction's own version ("component R12", "test point 7"). */
+  readonly targetLabel: string;
   readonly templateId: number;
   readonly versionNumber: number;
   readonly target: { readonly kind: CorrectionTargetKind; readonly key: string };

@@ -15,6 +15,7 @@ import { TemplateDetail } from './template-detail';
 
 const CORRECTION: Correction = {
   id: 5,
+  targetLabel: 'component R2',
   templateId: 11,
   versionNumber: 2,
   target: { kind: 'component', key: 'c-r2' },

@@ -260,13 +260,6 @@ export class TemplateDetail {
     });
   }
 
-  protected correctionTarget(c: Correction): string {
-    const doc = this.doc();
-    if (c.target.kind === 'component') return `component ${doc?.components.find((x) => x.key === c.target.key)?.ref ?? c.target.key}`;
-    const i = doc?.testPoints.findIndex((t) => t.key === c.target.key) ?? -1;
-    return i >= 0 ? `test point ${i + 1}` : `test point ${c.target.key}`;
-  }
-
   protected changeLines(c: Correction): string[] {
     return Object.entries(c.change).map(([k, v]) => `${k}: ${typeof v === 'object' && v !== null ? JSON.stringify(v) : String(v)}`);
   }

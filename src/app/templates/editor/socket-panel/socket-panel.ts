@@ -79,9 +79,12 @@ export class SocketPanel {
   }
 
   protected setTubeType(text: string): void {
+    const so = this.store.selectedSocket();
     const t = text.trim().toUpperCase();
     this.typed.set(null);
-    this.store.updateSocket(this.stage().key, this.socket().key, { tubeType: t });
+    // The input's change and the autocomplete's selection may both report the same choice.
+    if (!so || so.tubeType === t) return;
+    this.store.updateSocket(this.stage().key, so.key, { tubeType: t });
   }
 
   protected openComponent(key: string): void {
