@@ -8,6 +8,7 @@ import { DEFAULT_VOLTAGE_MARGIN_PCT, RECTIFIER_MAX_FIRST_FILTER_UF, analyseCapac
 import type { CapacitorInfo, Component, PowerArrangement, TemplateDocument, TubeTypeRecord } from '../../api/domain/template-format';
 import { demoChassis } from '../../seeds/chassis';
 import { DEMO_TUBE_TYPES } from '../../seeds/tube-types';
+import { part } from '../support/template-parts';
 
 // 5U4GB: octal, filament 2–8, plates 4 and 6 (from memory, check against a tube manual).
 const U4GB: TubeTypeRecord = {
@@ -33,29 +34,6 @@ const U4GB: TubeTypeRecord = {
 const RECT_X: TubeTypeRecord = { ...U4GB, designation: 'SPEC-RX1' };
 const TYPES = new Map<string, TubeTypeRecord>([...DEMO_TUBE_TYPES, U4GB, RECT_X].map((t) => [t.designation, t]));
 
-function part(ref: string, kind: Component['kind'], a: string, b: string, nominal: Component['nominal'], extra: Partial<Component> = {}): Component {
-  return {
-    key: `c-${ref.toLowerCase()}`,
-    ref,
-    kind,
-    stageKey: 'st-1',
-    nodes: [a, b],
-    wiper: null,
-    nominal,
-    tolerancePct: kind === 'wire' ? null : 10,
-    ratedWatts: null,
-    ratedVolts: null,
-    voltsAcross: null,
-    critical: null,
-    fuseRole: false,
-    mainsSide: false,
-    nonLinear: false,
-    valueSource: 'schematic',
-    capacitor: null,
-    note: '',
-    ...extra,
-  };
-}
 const R = (ref: string, a: string, b: string, ohms: number, extra: Partial<Component> = {}) => part(ref, 'carbon-composition', a, b, { ohms }, extra);
 const L = (ref: string, a: string, b: string, ohms: number, extra: Partial<Component> = {}) => part(ref, 'winding', a, b, { ohms }, extra);
 const W = (ref: string, a: string, b: string) => part(ref, 'wire', a, b, { state: 'short' });

@@ -14,32 +14,10 @@ import {
 } from '../../api/domain/chassis-network';
 import type { ChartReading, Component, TemplateDocument, TestPoint, TubeTypeRecord } from '../../api/domain/template-format';
 import { DEMO_TUBE_TYPES } from '../../seeds/tube-types';
+import { part } from '../support/template-parts';
 
 const TYPES = new Map<string, TubeTypeRecord>(DEMO_TUBE_TYPES.map((t) => [t.designation, t]));
 
-function part(ref: string, kind: Component['kind'], a: string, b: string, nominal: Component['nominal'], extra: Partial<Component> = {}): Component {
-  return {
-    key: `c-${ref.toLowerCase()}`,
-    ref,
-    kind,
-    stageKey: 'st-1',
-    nodes: [a, b],
-    wiper: null,
-    nominal,
-    tolerancePct: kind === 'wire' ? null : 10,
-    ratedWatts: null,
-    ratedVolts: null,
-    voltsAcross: null,
-    critical: null,
-    fuseRole: false,
-    mainsSide: false,
-    nonLinear: false,
-    valueSource: 'schematic',
-    capacitor: null,
-    note: '',
-    ...extra,
-  };
-}
 const R = (ref: string, a: string, b: string, ohms: number, extra: Partial<Component> = {}) => part(ref, 'carbon-composition', a, b, { ohms }, extra);
 const wire = (ref: string, a: string, b: string) => part(ref, 'wire', a, b, { state: 'short' });
 
