@@ -15,6 +15,7 @@ import { runMigrations } from '../scripts/migrate';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, seedDemo } from '../seeds/seed';
 import { DIGITAL_METER, GUARDED_RULE } from './lib/fixtures';
 import { progress, round, type Figure } from './lib/stats';
+import { stopChild } from './lib/child';
 
 const PG_PORT = 15440;
 const HERE = new URL('.', import.meta.url).pathname;
@@ -128,15 +129,7 @@ export async function runServerGroups(emit: (f: Figure) => void, groups: { api: 
   const cleanup = async (): Promise<void> => {
     if (cleaned) return;
     cleaned = true;
-    if (child && child.exitCode === null && child.signalCode === null) {
-      const c = child;
-      const exited = new Promise<void>((res) => c.once('exit', () => res()));
-      if (c.connected) c.send('stop');
-      else c.kill('SIGTERM');
-      const timer = setTimeout(() => c.kill('SIGKILL'), 5000);
-      await exited;
-      clearTimeout(timer);
-    }
+    await stopChild(child);
     if (cluster) {
       try {
         stopCluster(cluster, 'fast');

@@ -36,6 +36,7 @@ import { demoChassis } from '../seeds/chassis';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, seedDemo } from '../seeds/seed';
 import { mulberry32 } from './lib/prng';
 import { progress, quantile, round, type Figure } from './lib/stats';
+import { stopChild } from './lib/child';
 
 const FIRST_PORT = 15441;
 const HERE = new URL('.', import.meta.url).pathname;
@@ -309,15 +310,7 @@ export async function runLibrary(emit: (f: Figure) => void): Promise<void> {
     if (cleaned) return;
     cleaned = true;
     if (database) await database.close().catch(() => undefined);
-    if (child && child.exitCode === null && child.signalCode === null) {
-      const c = child;
-      const exited = new Promise<void>((res) => c.once('exit', () => res()));
-      if (c.connected) c.send('stop');
-      else c.kill('SIGTERM');
-      const timer = setTimeout(() => c.kill('SIGKILL'), 5000);
-      await exited;
-      clearTimeout(timer);
-    }
+    await stopChild(child);
     if (cluster) {
       try {
         stopCluster(cluster, 'fast');
