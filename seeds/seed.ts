@@ -8,7 +8,7 @@ import { count, sql } from 'drizzle-orm';
 import { parseArgs } from 'node:util';
 import { createDatabase } from '../api/db';
 import type { Db } from '../api/db';
-import { users, type Role } from '../schema/index';
+import { chassisTemplates, users, type Role } from '../schema/index';
 import { seedDemoTemplates } from './templates';
 
 export const DEMO_PASSWORD = 'driftmark-demo';
@@ -23,20 +23,31 @@ export const DEMO_ACCOUNTS: { email: string; name: string; roles: Role[] }[] = [
 
 export class SeedRefused extends Error {}
 
-/** Seeds the demo accounts, tube types and templates when the users table is empty. Returns how many accounts were created. */
+/**
+ * Seeds the demo data, each part when its own table is still empty: the accounts when there is no
+ * user; the tube types and chassis templates when there is no template and the demo author exists
+ * (so a development database made before a part existed gets it at the next start). Never under
+ * NODE_ENV=production. Returns how many accounts were created.
+ */
 export async function seedDemo(db: Db, env: NodeJS.ProcessEnv = process.env): Promise<number> {
   const [{ n }] = await db.select({ n: count() }).from(users);
-  if (n > 0) return 0;
-  if (env.NODE_ENV === 'production') {
+  if (n === 0 && env.NODE_ENV === 'production') {
     throw new SeedRefused(
       'Refusing to create demo accounts with NODE_ENV=production. Create the first admin with: ' +
         'DATABASE_URL=… ADMIN_PASSWORD=… npm run seed -- --admin EMAIL --name "Full Name"',
     );
   }
-  const passwordHash = await bcrypt.hash(DEMO_PASSWORD, 11);
-  await db.insert(users).values(DEMO_ACCOUNTS.map((a) => ({ ...a, passwordHash })));
-  await seedDemoTemplates(db);
-  return DEMO_ACCOUNTS.length;
+  if (env.NODE_ENV === 'production') return 0;
+  let created = 0;
+  if (n === 0) {
+    const passwordHash = await bcrypt.hash(DEMO_PASSWORD, 11);
+    await db.insert(users).values(DEMO_ACCOUNTS.map((a) => ({ ...a, passwordHash })));
+    created = DEMO_ACCOUNTS.length;
+  }
+  const [{ templates }] = await db.select({ templates: count() }).from(chassisTemplates);
+  const [author] = await db.select({ id: users.id }).from(users).where(sql`lower(${users.email}) = ${DEMO_ACCOUNTS[1].email}`);
+  if (templates === 0 && author) await seedDemoTemplates(db);
+  return created;
 }
 
 /** Creates one admin account (for a production instance, where no demo accounts exist). */

@@ -2,7 +2,7 @@ import { count } from 'drizzle-orm';
 import pg from 'pg';
 import { createDatabase, type Database } from '../../api/db';
 import { runMigrations } from '../../scripts/migrate';
-import { users } from '../../schema/index';
+import { chassisTemplates, users } from '../../schema/index';
 import { createAdmin, DEMO_ACCOUNTS, seedDemo, SeedRefused } from '../../seeds/seed';
 
 describe('The demo seed', () => {
@@ -45,5 +45,26 @@ describe('The demo seed', () => {
     expect(await seedDemo(database.db, { NODE_ENV: 'development' })).toBe(0);
     const emails = (await database.db.select().from(users)).map((u) => u.email).sort();
     expect(emails).toEqual(['admin@driftmark.example', 'author@driftmark.example', 'instructor@driftmark.example', 'student@driftmark.example', 'tech@driftmark.example']);
+  });
+
+  it('adds the demo templates to a development database made before templates existed (accounts, no template)', async () => {
+    const old = `${name}_old`;
+    await admin.query(`CREATE DATABASE ${old}`);
+    const url = process.env.DATABASE_URL!.replace(/\/[^/]+$/, `/${old}`);
+    await runMigrations(url);
+    const db = createDatabase(url, { max: 2 });
+    try {
+      await db.db.insert(users).values(DEMO_ACCOUNTS.map((a) => ({ ...a, passwordHash: 'x' })));
+      expect(await seedDemo(db.db, { NODE_ENV: 'development' })).toBe(0);
+      const [{ t }] = await db.db.select({ t: count() }).from(chassisTemplates);
+      expect(t).toBe(3);
+      // Seeding again adds nothing.
+      await seedDemo(db.db, { NODE_ENV: 'development' });
+      const [{ t2 }] = await db.db.select({ t2: count() }).from(chassisTemplates);
+      expect(t2).toBe(3);
+    } finally {
+      await db.close();
+      await admin.query(`DROP DATABASE ${old} WITH (FORCE)`);
+    }
   });
 });
