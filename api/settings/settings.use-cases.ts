@@ -1,4 +1,4 @@
-import { eq, sql } from 'drizzle-orm';
+import { sql } from 'drizzle-orm';
 import { instanceSettings } from '../../schema/index';
 import type { Tx } from '../db';
 
@@ -28,8 +28,4 @@ export async function updateSettings(tx: Tx, patch: Partial<InstanceSettings>, b
       .onConflictDoUpdate({ target: instanceSettings.key, set: { value, updatedBy: by, updatedAt: sql`now()` } });
   }
   return getSettings(tx);
-}
-
-export async function deleteSetting(tx: Tx, field: keyof InstanceSettings): Promise<void> {
-  await tx.delete(instanceSettings).where(eq(instanceSettings.key, KEYS[field]));
 }
