@@ -3,7 +3,6 @@ import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
 import { Router, RouterLink } from '@angular/router';
@@ -12,21 +11,22 @@ import { ROLE_LABELS } from '../../core/auth/roles';
 import { apiErrorOf } from '../../core/errors/api-error';
 import { showServerError } from '../../core/errors/server-errors';
 import { ErrorMessages, FieldErrors } from '../../shared/field-errors/field-errors';
+import { NewPasswordField } from '../new-password-field/new-password-field';
 import { AccountApi, Invitation } from '../account-api';
-import { MIN_PASSWORD_LENGTH, NAME_MESSAGES, NEW_PASSWORD_MESSAGES, newPasswordValidators } from '../password-rules';
+import { NAME_MESSAGES, newPasswordValidators } from '../password-rules';
 
-const MESSAGES = { name: NAME_MESSAGES, password: NEW_PASSWORD_MESSAGES } satisfies Record<string, ErrorMessages>;
+const MESSAGES = { name: NAME_MESSAGES } satisfies Record<string, ErrorMessages>;
 
 /** `/invitation/:token` from the mail: see the invitation, choose a name and password, start. */
 @Component({
   selector: 'dm-invitation-accept',
   imports: [
+    NewPasswordField,
     ReactiveFormsModule,
     RouterLink,
     MatFormFieldModule,
     MatInputModule,
     MatButtonModule,
-    MatIconModule,
     MatProgressSpinnerModule,
     FieldErrors,
   ],
@@ -50,10 +50,8 @@ export class InvitationAccept implements OnInit {
   });
   protected readonly messages = MESSAGES;
   protected readonly roleLabels = ROLE_LABELS;
-  protected readonly minLength = MIN_PASSWORD_LENGTH;
   protected readonly busy = signal(false);
   protected readonly formError = signal<string | null>(null);
-  protected readonly hidePassword = signal(true);
 
   ngOnInit(): void {
     this.account

@@ -2,23 +2,19 @@ import { ChangeDetectionStrategy, Component, DestroyRef, inject, input, signal }
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
 import { Auth } from '../../core/auth/auth';
 import { apiErrorOf } from '../../core/errors/api-error';
 import { showServerError } from '../../core/errors/server-errors';
-import { ErrorMessages, FieldErrors } from '../../shared/field-errors/field-errors';
+import { NewPasswordField } from '../new-password-field/new-password-field';
 import { AccountApi } from '../account-api';
-import { MIN_PASSWORD_LENGTH, NEW_PASSWORD_MESSAGES, newPasswordValidators } from '../password-rules';
+import { newPasswordValidators } from '../password-rules';
 
-const MESSAGES = { password: NEW_PASSWORD_MESSAGES } satisfies Record<string, ErrorMessages>;
 
 /** `/reset-password/:token` from the mail: choose a new password. */
 @Component({
   selector: 'dm-reset-confirm',
-  imports: [ReactiveFormsModule, RouterLink, MatFormFieldModule, MatInputModule, MatButtonModule, MatIconModule, FieldErrors],
+  imports: [NewPasswordField, ReactiveFormsModule, RouterLink, MatButtonModule],
   templateUrl: './reset-confirm.html',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -34,11 +30,8 @@ export class ResetConfirm {
   protected readonly form = inject(NonNullableFormBuilder).group({
     password: ['', newPasswordValidators],
   });
-  protected readonly messages = MESSAGES;
-  protected readonly minLength = MIN_PASSWORD_LENGTH;
   protected readonly busy = signal(false);
   protected readonly formError = signal<string | null>(null);
-  protected readonly hidePassword = signal(true);
 
   protected savePassword(): void {
     if (this.busy()) return;

@@ -3,26 +3,25 @@ import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
 import { Auth } from '../../core/auth/auth';
 import { apiErrorOf } from '../../core/errors/api-error';
 import { showServerError } from '../../core/errors/server-errors';
 import { ErrorMessages, FieldErrors } from '../../shared/field-errors/field-errors';
+import { NewPasswordField } from '../new-password-field/new-password-field';
 import { AccountApi } from '../account-api';
-import { EMAIL_MESSAGES, MIN_PASSWORD_LENGTH, NAME_MESSAGES, NEW_PASSWORD_MESSAGES, newPasswordValidators } from '../password-rules';
+import { EMAIL_MESSAGES, NAME_MESSAGES, newPasswordValidators } from '../password-rules';
 
 const MESSAGES = {
   name: NAME_MESSAGES,
   email: EMAIL_MESSAGES,
-  password: NEW_PASSWORD_MESSAGES,
 } satisfies Record<string, ErrorMessages>;
 
 /** Self sign-up (only while open sign-up is on); new accounts get the technician role. */
 @Component({
   selector: 'dm-sign-up',
-  imports: [ReactiveFormsModule, RouterLink, MatFormFieldModule, MatInputModule, MatButtonModule, MatIconModule, FieldErrors],
+  imports: [NewPasswordField, ReactiveFormsModule, RouterLink, MatFormFieldModule, MatInputModule, MatButtonModule, FieldErrors],
   templateUrl: './sign-up.html',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -38,10 +37,8 @@ export class SignUp {
     password: ['', newPasswordValidators],
   });
   protected readonly messages = MESSAGES;
-  protected readonly minLength = MIN_PASSWORD_LENGTH;
   protected readonly busy = signal(false);
   protected readonly formError = signal<string | null>(null);
-  protected readonly hidePassword = signal(true);
 
   protected createAccount(): void {
     if (this.busy()) return;
