@@ -54,8 +54,10 @@ async function main(): Promise<void> {
     }
     process.exit(code);
   };
-  process.once('SIGINT', () => void shutdown(0));
-  process.once('SIGTERM', () => void shutdown(0));
+  // 'on', not 'once': Ctrl-C reaches us from the terminal and again through npm; a second
+  // signal must not kill the process before PostgreSQL is stopped (shutdown runs once).
+  process.on('SIGINT', () => void shutdown(0));
+  process.on('SIGTERM', () => void shutdown(0));
 
   try {
     await runMigrations(databaseUrl);
