@@ -1,2 +1,3 @@
 export * from './users';
 export * from './templates';
+export * from './sets';

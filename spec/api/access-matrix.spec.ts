@@ -7,41 +7,11 @@ import sharp from 'sharp';
 import request from 'supertest';
 import { uploadFile } from '../../api/files/files.use-cases';
 import { storageFromConfig } from '../../api/storage/index';
-import type { Role } from '../../schema/index';
 import { apiEnv, bearer, makeUser, randomIp, userSession, type Session } from '../support/api-env';
 import { freshCredentials, liveInvitationToken, liveRefreshToken, liveResetToken } from '../support/api-fixtures';
 import { makeTemplate, makeTubeType, sampleDocument, specTube, uniqueDesignation } from '../support/template-fixtures';
-
-type Caller = 'anonymous' | Role;
-const CALLERS: Caller[] = ['anonymous', 'admin', 'author', 'technician', 'instructor', 'student'];
-type Plain = 'ok' | 401 | 403 | 404;
-/**
- * Object-level access: the answer when the object (a template, a tube type) is the caller's own,
- * and when it is someone else's (a private one, for templates). The request is sent twice.
- */
-interface Owned {
-  own: Plain;
-  others: Plain;
-}
-type Expect = Plain | Owned;
-const flat = (e: Expect): Plain[] => (typeof e === 'object' ? [e.own, e.others] : [e]);
-const show = (e: Expect) => (typeof e === 'object' ? `own ${e.own}/others ${e.others}` : String(e));
-
-const ALL_OK: Record<Caller, Expect> = { anonymous: 'ok', admin: 'ok', author: 'ok', technician: 'ok', instructor: 'ok', student: 'ok' };
-const SIGNED_IN: Record<Caller, Expect> = { ...ALL_OK, anonymous: 401 };
-const ADMIN_ONLY: Record<Caller, Expect> = { anonymous: 401, admin: 'ok', author: 403, technician: 403, instructor: 403, student: 403 };
-const AUTHOR_ADMIN: Record<Caller, Expect> = { anonymous: 401, admin: 'ok', author: 'ok', technician: 403, instructor: 403, student: 403 };
-/** Reads of a template (and copies, corrections): the owner and admins; someone else's private one is a 404. */
-const SEE_TEMPLATE: Record<Caller, Expect> = {
-  anonymous: 401,
-  admin: { own: 'ok', others: 'ok' },
-  author: { own: 'ok', others: 404 },
-  technician: { own: 'ok', others: 404 },
-  instructor: { own: 'ok', others: 404 },
-  student: { own: 'ok', others: 404 },
-};
-/** The owner's writes (draft, publish, retire, sharing, decisions): an admin can see but may not (403). */
-const OWNER_WRITES: Record<Caller, Expect> = { ...SEE_TEMPLATE, admin: { own: 'ok', others: 403 } };
+import { ADMIN_ONLY, ALL_OK, AUTHOR_ADMIN, CALLERS, flat, OWNER_WRITES, SEE_TEMPLATE, show, SIGNED_IN, type Caller, type Expect, type MatrixRequest, type Plain } from '../support/matrix-kit';
+import { BENCH_MATRIX, BENCH_REQUESTS } from './rows/index';
 
 /** Hand-written expectations, one row per route. */
 const MATRIX: Record<string, Record<Caller, Expect>> = {
@@ -98,6 +68,7 @@ const MATRIX: Record<string, Record<Caller, Expect>> = {
   'GET /api/templates/:id/files/:fileId/thumbnail': SEE_TEMPLATE,
   'PATCH /api/templates/:id/files/:fileId': OWNER_WRITES,
   'DELETE /api/templates/:id/files/:fileId': OWNER_WRITES,
+  ...BENCH_MATRIX,
 };
 
 const smallPng = () => sharp({ create: { width: 8, height: 8, channels: 3, background: { r: 1, g: 2, b: 3 } } }).png().toBuffer();
@@ -109,13 +80,12 @@ async function templateWithFile(ownerId?: number): Promise<{ id: number; fileId:
   return { id: t.id, fileId: f.id };
 }
 
-type Agent = ReturnType<typeof request>;
 /**
  * Sends a valid request for the route (fresh data each time) with the caller's headers. `ownerId`
  * (object-level rows) is whose object to build: the caller's for `own`, another user's for
  * `others`; absent, the object belongs to a fresh author.
  */
-const REQUESTS: Record<string, (a: Agent, h: Record<string, string>, ownerId?: number) => Promise<request.Response>> = {
+const REQUESTS: Record<string, MatrixRequest> = {
   'GET /api/health': async (a, h) => a.get('/api/health').set(h),
   'POST /api/auth/sign-in': async (a, h) => a.post('/api/auth/sign-in').set(h).set('X-Forwarded-For', randomIp()).send(await freshCredentials()),
   'POST /api/auth/refresh': async (a, h) => a.post('/api/auth/refresh').set(h).send({ refreshToken: await liveRefreshToken() }),
@@ -198,6 +168,7 @@ const REQUESTS: Record<string, (a: Agent, h: Record<string, string>, ownerId?: n
     const t = await templateWithFile(ownerId);
     return a.delete(`/api/templates/${t.id}/files/${t.fileId}`).set(h);
   },
+  ...BENCH_REQUESTS,
 };
 
 describe('Access matrix', () => {

@@ -11,20 +11,8 @@ import { apiEnv, bearer, makeUser, randomIp, userSession, type Session } from '.
 import { freshCredentials, liveInvitationToken, liveRefreshToken, liveResetToken } from '../support/api-fixtures';
 import { tableState } from '../support/table-state';
 import { makeTemplate, makeTubeType, sampleDocument, specTube, uniqueDesignation, withR2Tolerance } from '../support/template-fixtures';
-
-type Body = Record<string, unknown>;
-interface WriteRoute {
-  method: 'post' | 'put' | 'patch';
-  path: () => Promise<string>;
-  valid: () => Promise<Body>;
-  auth: 'none' | 'admin';
-  /** Fields the route may go without. */
-  optional?: string[];
-  /** The caller who owns the object the route writes (their headers replace `auth`'s); called before `valid` and `path`. */
-  caller?: () => Promise<Session>;
-  /** Generated cases that are valid for this route (e.g. `stageKey as null`: null means "none"), left out. */
-  accepts?: string[];
-}
+import { owned, type Body, type WriteRoute } from '../support/bad-input-kit';
+import { BENCH_BAD_INPUT } from './rows/index';
 
 /** Free text that may legitimately hold quotes and SQL-looking words (stored verbatim, never run). */
 const FREE_TEXT = ['password', 'name', 'note', 'changelog', 'reason'];
@@ -35,23 +23,6 @@ const SECRETS = ['password'];
 
 const unique = (label: string) => `${label}-${Math.random().toString(36).slice(2)}@spec.example`;
 
-/**
- * A route that writes an object of its caller's own (a template): `caller` makes the owner,
- * `build` the object and the valid body, `path` the address; they share the row's state.
- */
-function owned(method: WriteRoute['method'], build: (owner: Session) => Promise<{ path: string; body: Body }>, optional?: string[], accepts?: string[]): WriteRoute {
-  let owner: Session;
-  let built: { path: string; body: Body };
-  return {
-    method,
-    auth: 'none',
-    optional,
-    accepts,
-    caller: async () => (owner = await userSession(['author'])),
-    valid: async () => (built = await build(owner)).body,
-    path: async () => built.path,
-  };
-}
 const tubeRecord = () => ({ base: 'noval', heating: 'indirect', heaterVolts: 6.3, heaterAmps: 0.3, pins: [{ pin: 4, electrode: 'h', label: 'heater' }, { pin: 5, electrode: 'h', label: 'heater' }] });
 
 const ROUTES: Record<string, WriteRoute> = {
@@ -160,6 +131,7 @@ const ROUTES: Record<string, WriteRoute> = {
     // null moves to the whole template; '' clears the caption; a caption is free text (stored, never run).
     ['stageKey as null', 'caption empty', 'caption with SQL injection'],
   ),
+  ...BENCH_BAD_INPUT,
 };
 
 /** Malformed variants of a valid body: each says what is wrong with it. */

@@ -27,6 +27,25 @@ export const routes: Routes = [
     loadChildren: () => import('./templates/templates.routes'),
   },
   {
+    path: 'sets',
+    canActivate: [signedIn],
+    loadChildren: () => import('./sets/sets.routes'),
+  },
+  {
+    path: 'surveys',
+    canActivate: [signedIn],
+    loadChildren: () => import('./surveys/surveys.routes'),
+  },
+  {
+    path: 'meters',
+    canActivate: [signedIn],
+    loadChildren: () => import('./meters/meters.routes'),
+  },
+  {
+    path: 'p',
+    loadChildren: () => import('./provenance/provenance.routes'),
+  },
+  {
     path: 'calc',
     loadChildren: () => import('./calc/calc.routes'),
   },

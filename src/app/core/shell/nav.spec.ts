@@ -6,7 +6,7 @@ describe('navItemsFor', () => {
     const technician = navItemsFor(true, new Set(['technician'])).map((i) => i.link);
     expect(admin).toContain('/admin/users');
     expect(technician).not.toContain('/admin/users');
-    expect(technician).toEqual(['/home', '/templates', '/calc']);
+    expect(technician).toEqual(['/home', '/sets', '/templates', '/meters', '/calc']);
   });
 
   it('shows the template library to every signed-in user, never to a visitor', () => {

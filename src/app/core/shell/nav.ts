@@ -12,7 +12,9 @@ export interface NavItem {
 
 export const NAV_ITEMS: readonly NavItem[] = [
   { label: 'Home', icon: 'home', link: '/home' },
+  { label: 'Sets', icon: 'radio', link: '/sets' },
   { label: 'Templates', icon: 'library_books', link: '/templates' },
+  { label: 'Meters', icon: 'speed', link: '/meters' },
   { label: 'Users', icon: 'group', link: '/admin/users', roles: ['admin'] },
   { label: 'Settings', icon: 'settings', link: '/admin/settings', roles: ['admin'] },
   { label: 'Quick check', icon: 'calculate', link: '/calc', public: true },
