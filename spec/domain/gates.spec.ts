@@ -1,6 +1,6 @@
 import { blockersMessage, firstPowerBlockers, GATE_ITEM_KEYS, GATE_NOTICE, gateItem, gateItemsFor, gateStates, isHotChassis, type GateSignatureInput } from '../../api/domain/gates';
 
-const keys = (power: Parameters<typeof gateItemsFor>[0]['power'], hotChassis: boolean | null = null) => gateItemsFor({ power, hotChassis }).map((i) => i.key);
+const keys = (power: Parameters<typeof gateItemsFor>[0]['power'], hotChassis: boolean | null = null) => gateItemsFor({ power, hotChassis }).map((i): string => i.key);
 
 describe('gate items drawn from the set kind', () => {
   // check-values.md §5 "Safety before first power-up" [SEC: antique-radio hobby FAQ; CP]: every mains
@@ -38,7 +38,7 @@ describe('gate items drawn from the set kind', () => {
     for (const power of ['transformer', 'ac-dc', 'autotransformer', 'battery'] as const) {
       const k = keys(power);
       expect(new Set(k).size).toBe(k.length);
-      expect([...k].sort((a, b) => GATE_ITEM_KEYS.indexOf(a) - GATE_ITEM_KEYS.indexOf(b))).toEqual(k);
+      expect([...k].sort((a, b) => (GATE_ITEM_KEYS as readonly string[]).indexOf(a) - (GATE_ITEM_KEYS as readonly string[]).indexOf(b))).toEqual(k);
     }
   });
 
