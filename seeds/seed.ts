@@ -1,6 +1,6 @@
 /**
  * Demo data: an invented scenario. Accounts here, the tube types and chassis templates in
- * seeds/templates.ts; sets and the class arrive with the issues that build them. Refuses to
+ * seeds/templates.ts, the sets with their surveys in seeds/sets.ts; the class arrives with the classes issue. Refuses to
  * create demo accounts when NODE_ENV=production.
  */
 import bcrypt from 'bcrypt';
@@ -9,6 +9,7 @@ import { parseArgs } from 'node:util';
 import { createDatabase } from '../api/db';
 import type { Db } from '../api/db';
 import { chassisTemplates, users, type Role } from '../schema/index';
+import { seedDemoSets } from './sets';
 import { seedDemoTemplates } from './templates';
 
 export const DEMO_PASSWORD = 'driftmark-demo';
@@ -47,6 +48,7 @@ export async function seedDemo(db: Db, env: NodeJS.ProcessEnv = process.env): Pr
   const [{ templates }] = await db.select({ templates: count() }).from(chassisTemplates);
   const [author] = await db.select({ id: users.id }).from(users).where(sql`lower(${users.email}) = ${DEMO_ACCOUNTS[1].email}`);
   if (templates === 0 && author) await seedDemoTemplates(db);
+  await seedDemoSets(db);
   return created;
 }
 

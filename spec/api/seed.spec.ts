@@ -2,7 +2,10 @@ import { count } from 'drizzle-orm';
 import pg from 'pg';
 import { createDatabase, type Database } from '../../api/db';
 import { runMigrations } from '../../scripts/migrate';
-import { chassisTemplates, users } from '../../schema/index';
+import { and, asc, eq } from 'drizzle-orm';
+import { SurveyGrid } from '../../api/domain/survey-grid';
+import type { TemplateDocument, TubeTypeRecord } from '../../api/domain/template-format';
+import { chassisTemplates, liftedLeads, partsRecord, provenanceLabels, readings, sets, surveys, templateVersions, tubeTypes, users } from '../../schema/index';
 import { createAdmin, DEMO_ACCOUNTS, seedDemo, SeedRefused } from '../../seeds/seed';
 
 describe('The demo seed', () => {
@@ -66,5 +69,47 @@ describe('The demo seed', () => {
       await db.close();
       await admin.query(`DROP DATABASE ${old} WITH (FORCE)`);
     }
+  });
+
+  it('seeds the demo sets once: three surveys with drift and a replacement, a lead lifted mid-survey, a complete set with its label', async () => {
+    // Runs after the accounts and templates exist (the tests above).
+    const all = await database.db.select().from(sets).orderBy(asc(sets.id));
+    expect(all.map((x) => x.label)).toEqual(['Holloway collection', 'Job 2611 — R. Anselm', 'Vellmar Museum of Sound']);
+    const [kestrel, larkspur, museum] = all;
+    const ks = await database.db.select().from(surveys).where(eq(surveys.setId, kestrel.id)).orderBy(asc(surveys.createdAt));
+    expect(ks.map((x) => x.createdAt.getUTCFullYear())).toEqual([2019, 2022, 2025]);
+    expect(ks.every((x) => x.state === 'complete')).toBeTrue();
+    const [version] = await database.db.select().from(templateVersions).where(eq(templateVersions.id, ks[0].templateVersionId));
+    const doc = version.content as TemplateDocument;
+    const types = (await database.db.select().from(tubeTypes)) as unknown as TubeTypeRecord[];
+    const r9 = doc.testPoints.find((t) => t.kind === 'component-check' && t.componentKey === doc.components.find((c) => c.ref === 'R9')!.key)!.key;
+    const verdictOf = async (surveyId: number) => {
+      const s = ks.find((x) => x.id === surveyId)!;
+      const grid = new SurveyGrid({ document: doc, tubeTypes: types, deviations: [], meter: (s.meter as { profile: never }).profile, rule: s.rule as never, conditions: s.conditions as never });
+      const rs = await database.db.select().from(readings).where(eq(readings.surveyId, surveyId));
+      return grid.evaluateAll(rs.map((r) => ({ ...r, liftedEnd: r.liftedEnd as 0 | 1 | null })), s.jointChecks as Record<string, unknown>).get(r9)!.verdict;
+    };
+    // The plate load drifted out of band by 2022, was replaced, and reads in band in 2025.
+    expect(await verdictOf(ks[0].id)).toBe('in-band');
+    expect(await verdictOf(ks[1].id)).toBe('high');
+    expect(await verdictOf(ks[2].id)).toBe('in-band');
+    const replaced = await database.db.select().from(partsRecord).where(and(eq(partsRecord.setId, kestrel.id), eq(partsRecord.componentRef, 'R9')));
+    expect(replaced.map((p) => p.action)).toEqual(['replaced']);
+    // Mid-survey with a lead lifted and not re-soldered.
+    const [ls] = await database.db.select().from(surveys).where(eq(surveys.setId, larkspur.id));
+    expect(ls.state).toBe('draft');
+    const leads = await database.db.select().from(liftedLeads).where(eq(liftedLeads.setId, larkspur.id));
+    expect(leads.length).toBe(1);
+    expect(leads[0].resolderedAt).toBeNull();
+    const follow = await database.db.select().from(readings).where(and(eq(readings.surveyId, ls.id), eq(readings.method, 'lead-lifted')));
+    expect(follow.length).toBe(1);
+    expect(follow[0].followsReadingId).not.toBeNull();
+    // Complete, first power recorded, a live label.
+    expect(museum.firstPowerAt).not.toBeNull();
+    const labels = await database.db.select().from(provenanceLabels).where(eq(provenanceLabels.setId, museum.id));
+    expect(labels.filter((x) => x.revokedAt === null).length).toBe(1);
+    // Seeding again adds no set.
+    await seedDemo(database.db, { NODE_ENV: 'development' });
+    expect((await database.db.select().from(sets)).length).toBe(3);
   });
 });
