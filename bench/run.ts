@@ -1,7 +1,7 @@
 /**
  * `npm run bench` — every timing target of Driftmark lives here, never in tests (issue 2).
  *
- *   npx tsx bench/run.ts [--check] [--only=domain|api|auth|library]
+ *   npx tsx bench/run.ts [--check] [--only=domain|api|auth|library|survey] [--fresh-scaled]
  *
  * stdout: one JSON object per figure (the first one describes the machine); with --check, then
  * one PASS/FAIL line per target, and exit 1 when a gating target fails. Progress goes to stderr.
@@ -11,28 +11,30 @@ import { cpus, loadavg, totalmem } from 'node:os';
 import { runDomain } from './domain';
 import { progress, type Figure } from './lib/stats';
 
-const GROUPS = ['domain', 'api', 'auth', 'library'] as const;
+const GROUPS = ['domain', 'api', 'auth', 'library', 'survey'] as const;
 type Group = (typeof GROUPS)[number];
 
-function parseArgs(argv: string[]): { check: boolean; groups: Group[] } {
+function parseArgs(argv: string[]): { check: boolean; groups: Group[]; freshScaled: boolean } {
   let check = false;
+  let freshScaled = false;
   let groups: Group[] = [...GROUPS];
   for (const arg of argv) {
     if (arg === '--check') check = true;
+    else if (arg === '--fresh-scaled') freshScaled = true;
     else if (arg.startsWith('--only=')) {
       const wanted = arg.slice('--only='.length).split(',');
       for (const g of wanted) if (!(GROUPS as readonly string[]).includes(g)) throw new Error(`unknown group '${g}': use ${GROUPS.join(', ')}`);
       groups = GROUPS.filter((g) => wanted.includes(g));
     } else if (arg === '--help' || arg === '-h') {
-      process.stderr.write('usage: npx tsx bench/run.ts [--check] [--only=domain|api|auth|library]\n');
+      process.stderr.write('usage: npx tsx bench/run.ts [--check] [--only=domain|api|auth|library|survey] [--fresh-scaled]\n');
       process.exit(0);
     } else throw new Error(`unknown argument '${arg}'`);
   }
-  return { check, groups };
+  return { check, groups, freshScaled };
 }
 
 async function main(): Promise<number> {
-  const { check, groups } = parseArgs(process.argv.slice(2));
+  const { check, groups, freshScaled } = parseArgs(process.argv.slice(2));
   const figures: Figure[] = [];
   const emit = (f: Figure): void => {
     figures.push(f);
@@ -66,6 +68,11 @@ async function main(): Promise<number> {
     progress('group library');
     const { runLibrary } = await import('./library');
     await runLibrary(emit);
+  }
+  if (groups.includes('survey')) {
+    progress('group survey');
+    const { runSurvey } = await import('./survey');
+    await runSurvey(emit, { freshScaled });
   }
   emit({ figure: 'machine.load-at-end', value: Math.round(loadavg()[0] * 100) / 100, unit: 'load (1 min)', target: null, seconds: Math.round((Date.now() - started) / 100) / 10 });
   progress(`done in ${((Date.now() - started) / 1000).toFixed(1)} s`);
