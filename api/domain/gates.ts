@@ -216,3 +216,19 @@ export function blockersMessage(blockers: readonly FirstPowerBlocker[]): string 
   if (leads.length) parts.push(`${leads.length === 1 ? 'a lifted lead is' : `${leads.length} lifted leads are`} not re-soldered: ${leads.join(', ')}`);
   return `Not recorded as ready for first power: ${parts.join('; and ')}.`;
 }
+
+/** The item key under which "ready for first power" is recorded among the gate records. */
+export const FIRST_POWER_KEY = 'first-power';
+
+/** GET /api/sets/:id/gates (P: the person shape, L: the lifted-lead shape). */
+export interface GatesView<P = unknown, L = unknown> {
+  notice: string;
+  kind: { power: PowerArrangement; hotChassis: boolean };
+  items: GateItemState<P>[];
+  /** Every record in the order written (signatures, reopenings, first power): the audit trail. */
+  history: GateSignatureInput<P>[];
+  openLiftedLeads: L[];
+  firstPower: { at: string; by: P | null; note: string } | null;
+  /** Empty when first power may be recorded (and it has not been yet). */
+  blockers: FirstPowerBlocker[];
+}
