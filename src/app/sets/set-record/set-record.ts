@@ -1,0 +1,94 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { RouterLink } from '@angular/router';
+import type { SurveyView } from '@domain/set-format';
+import { catchError, map, of, switchMap } from 'rxjs';
+import { apiErrorOf } from '../../core/errors/api-error';
+import { VerdictBadge } from '../../shared/verdict-badge/verdict-badge';
+import { BRING_UP_STEP_LABELS, JOB_STATUS_LABELS, PARTS_ACTION_LABELS, PURPOSE_LABELS, RESTORATION_LEVEL_LABELS, SURVEY_STATE_LABELS, countsText, pctText } from '../set-words';
+import { SetRecordView, SetsApi } from '../sets-api';
+import { RecordStage, recordStages } from './record-rows';
+
+type Loaded = { state: 'loading' } | { state: 'ok'; value: SetRecordView } | { state: 'failed'; status: number; message: string };
+
+interface SurveyBlock {
+  readonly view: SurveyView;
+  readonly stages: readonly RecordStage[];
+  readonly problem: string | null;
+}
+
+/**
+ * `/sets/:id/record`: the printable record of a set — intake, each survey stage by stage with
+ * readings and verdicts, amendments, the parts record, the gates, the lifted leads and the
+ * bring-up log. The print stylesheet drops the navigation and starts each stage on a new page.
+ */
+@Component({
+  selector: 'dm-set-record',
+  imports: [DatePipe, RouterLink, MatButtonModule, MatIconModule, MatProgressBarModule, VerdictBadge],
+  templateUrl: './set-record.html',
+  styleUrl: './set-record.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class SetRecord {
+  private readonly api = inject(SetsApi);
+
+  /** Route parameter. */
+  readonly id = input.required<string>();
+
+  protected readonly purposes = PURPOSE_LABELS;
+  protected readonly states = SURVEY_STATE_LABELS;
+  protected readonly statusLabels = JOB_STATUS_LABELS;
+  protected readonly levelLabels = RESTORATION_LEVEL_LABELS;
+  protected readonly actionLabels = PARTS_ACTION_LABELS;
+  protected readonly stepLabels = BRING_UP_STEP_LABELS;
+  protected readonly counts = countsText;
+  protected readonly pct = pctText;
+  protected readonly now = new Date().toISOString();
+
+  protected readonly loaded = signal<Loaded>({ state: 'loading' });
+  protected readonly record = computed(() => {
+    const l = this.loaded();
+    return l.state === 'ok' ? l.value : null;
+  });
+  /** Oldest survey first, each grouped by stage. */
+  protected readonly surveys = computed<SurveyBlock[]>(() =>
+    [...(this.record()?.surveys ?? [])]
+      .sort((a, b) => a.survey.startedAt.localeCompare(b.survey.startedAt))
+      .map((view) => {
+        try {
+          return { view, stages: recordStages(view), problem: null };
+        } catch (err) {
+          return { view, stages: [], problem: err instanceof Error ? err.message : String(err) };
+        }
+      }),
+  );
+
+  constructor() {
+    toObservable(computed(() => Number(this.id())))
+      .pipe(
+        switchMap((id) =>
+          this.api.record(id).pipe(
+            map((value): Loaded => ({ state: 'ok', value })),
+            catchError((err: unknown) => {
+              const e = apiErrorOf(err);
+              return of<Loaded>({ state: 'failed', status: e.status, message: e.message });
+            }),
+          ),
+        ),
+        takeUntilDestroyed(),
+      )
+      .subscribe((l) => this.loaded.set(l));
+  }
+
+  protected print(): void {
+    window.print();
+  }
+
+  protected method(m: string | null): string {
+    return m ? m.replace(/-/g, ' ') : '';
+  }
+}

@@ -1,0 +1,404 @@
+import { HttpClient, HttpErrorResponse, HttpParams, HttpResponse } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import { Observable, map } from 'rxjs';
+import type {
+  BringUpEntry,
+  BringUpStep,
+  JobStatus,
+  LiftedLeadRecord,
+  NewPart,
+  PartsAction,
+  PartsRecordLine,
+  PersonRef,
+  SetDetail,
+  SetInput,
+  SetSummary,
+  SurveyStart,
+  SurveySummary,
+  SurveyView,
+  TubeStatus,
+  VerdictCounts,
+} from '@domain/set-format';
+import type { GateItemState } from '@domain/gates';
+import type { BandSource, Method, ReadingState, SurveyPurpose, Verdict } from '@domain/words';
+import { callerHandles } from '../core/errors/api-error';
+
+// ---------------------------------------------------------------------------------------------
+// Answers of the "after the survey" routes (helper B's api/records/). Until set-format.ts holds
+// them, the app reads them as declared here; every field the screens do not need is optional.
+
+export interface SetPage {
+  readonly items: readonly SetSummary[];
+  readonly total: number;
+  readonly page: number;
+  readonly pageSize: number;
+}
+
+export interface SetQuery {
+  readonly q?: string;
+  readonly status?: JobStatus | '';
+  /** 1-based. */
+  readonly page: number;
+  readonly pageSize: number;
+}
+
+/** One checklist item of the set's safety gates with its newest record (api/domain/gates.ts). */
+export type GateItem = GateItemState<PersonRef | null>;
+
+/** GET /api/sets/:id/gates */
+export interface GatesView {
+  readonly items: readonly GateItem[];
+  readonly openLiftedLeads?: readonly LiftedLeadRecord[];
+  readonly firstPower: { readonly at: string; readonly by: PersonRef | null; readonly note?: string } | null;
+}
+
+export interface SuggestedValue {
+  readonly text: string;
+  readonly ohms: number;
+  readonly deviationPct: number;
+  readonly series?: string;
+  readonly inBand?: boolean;
+}
+
+/** A line of the order (parts out on conclusive evidence), aggregated across the set. */
+export interface OrderLine {
+  readonly componentKey: string;
+  readonly ref: string;
+  /** Every reference the line stands for (same value, watts and type). */
+  readonly refs?: readonly string[];
+  readonly kind: string;
+  readonly nominalText: string;
+  readonly suggested: SuggestedValue | null;
+  readonly watts: number | null;
+  /** `carbon film`, `flameproof`, `fusible` … */
+  readonly type: string;
+  readonly voltageWarning: string | null;
+  readonly notes?: readonly string[];
+  readonly quantity: number;
+  readonly ordered: boolean;
+  readonly received: boolean;
+}
+
+/** A part that is out on evidence that is not conclusive yet: never ordered. */
+export interface ConfirmLine {
+  readonly componentKey: string | null;
+  readonly ref: string;
+  readonly testPointKey: string;
+  readonly nominalText?: string;
+  readonly readingText?: string;
+  readonly verdict: Verdict;
+  readonly nextStep: 'lift-a-lead' | 'check-joint' | null;
+}
+
+/** A capacitor of the template's list, replaced by policy (the recap kit). */
+export interface CapacitorLine {
+  readonly componentKey: string;
+  readonly ref: string;
+  readonly text: string;
+  readonly uF?: number | null;
+  readonly volts?: number | null;
+  readonly kind?: string;
+  readonly safetyClass?: string | null;
+  readonly quantity?: number;
+  readonly ordered: boolean;
+  readonly received: boolean;
+}
+
+/** GET /api/sets/:id/replacements */
+export interface ReplacementList {
+  readonly surveyId?: number | null;
+  readonly order: readonly OrderLine[];
+  readonly confirm: readonly ConfirmLine[];
+  readonly capacitors: readonly CapacitorLine[];
+}
+
+export interface HistoryPoint {
+  readonly surveyId: number;
+  readonly date: string;
+  readonly text?: string;
+  readonly state?: ReadingState;
+  readonly ohms: number | null;
+  readonly driftPct: number | null;
+  /** U of the drift, % (k = 2). */
+  readonly uncertaintyPct: number | null;
+  readonly uncertaintyOhms?: number | null;
+  readonly verdict?: Verdict;
+  readonly meterName?: string | null;
+  readonly method?: Method;
+  /** The meter or the method differs from the point before. */
+  readonly meterChanged?: boolean;
+  readonly methodChanged?: boolean;
+}
+
+export interface HistoryRate {
+  readonly slopePctPerYear: number | null;
+  readonly interval?: { readonly low: number; readonly high: number };
+  readonly n?: number;
+  /** Why there is no rate (fewer than three surveys, spread within U). */
+  readonly reason?: string;
+}
+
+/** One part instance across the set's surveys (a replacement starts a new instance). */
+export interface PartHistory {
+  readonly componentKey: string;
+  readonly ref: string;
+  /** 1 = the original part; 2 … after each replacement. */
+  readonly instance: number;
+  readonly since?: string | null;
+  readonly nominalText?: string;
+  readonly band: { readonly lowPct: number; readonly highPct: number; readonly source?: BandSource } | null;
+  readonly points: readonly HistoryPoint[];
+  readonly rate: HistoryRate | null;
+  readonly projection?: { readonly note: string; readonly edge: 'high' | 'low' | null; readonly yearsAhead?: number; readonly reason?: string } | null;
+}
+
+/** GET /api/sets/:id/history */
+export interface SetHistory {
+  readonly parts: readonly PartHistory[];
+}
+
+export interface CompareSide {
+  readonly text: string;
+  readonly ohms: number | null;
+  readonly verdict: Verdict;
+}
+
+/** GET /api/sets/:id/compare?a=&b= */
+export interface SurveyCompare {
+  readonly a: SurveySummary;
+  readonly b: SurveySummary;
+  readonly rows: readonly {
+    readonly testPointKey: string;
+    readonly label: string;
+    readonly stageName?: string;
+    readonly a: CompareSide | null;
+    readonly b: CompareSide | null;
+    readonly changePct: number | null;
+  }[];
+}
+
+/** GET /api/sets/:id/record: everything the printable record shows. */
+export interface SetRecordView {
+  readonly set: SetDetail;
+  /** Each survey as the grid reads it (readings, evaluations, amendments). */
+  readonly surveys: readonly SurveyView[];
+  readonly partsRecord: readonly PartsRecordLine[];
+  readonly gates: GatesView;
+  readonly liftedLeads: readonly LiftedLeadRecord[];
+  readonly bringUp: readonly BringUpEntry[];
+  readonly generatedAt?: string;
+}
+
+export interface ProvenanceLabel {
+  readonly id: number;
+  readonly token: string;
+  readonly url: string;
+  readonly createdAt?: string;
+  readonly revokedAt?: string | null;
+}
+
+/** GET /api/public/labels/:token: read-only, without owner identity. */
+export interface PublicRecord {
+  readonly chassis: { readonly maker: string; readonly model: string; readonly chassisNumber?: string; readonly yearFrom?: number | null; readonly yearTo?: number | null };
+  readonly serial: string;
+  readonly surveys: readonly { readonly date: string; readonly purpose: SurveyPurpose; readonly counts: VerdictCounts }[];
+  readonly partsReplaced: readonly { readonly ref: string; readonly text?: string; readonly date?: string }[];
+  readonly firstPowerAt: string | null;
+}
+
+export interface PartsLineInput {
+  readonly componentKey: string;
+  readonly action: PartsAction;
+  readonly newPart?: Partial<NewPart> | null;
+  readonly readingId?: number | null;
+  readonly reason?: string;
+  readonly note?: string;
+}
+
+/** POST answer of a parts-record line: the line and the capacitor checks' findings. */
+export interface PartsLineSaved {
+  readonly line?: PartsRecordLine;
+  readonly warnings?: readonly { readonly message: string }[];
+}
+
+export interface BringUpInput {
+  readonly step: BringUpStep;
+  readonly setting: string;
+  readonly mainsVolts: number | null;
+  readonly currentAmps: number | null;
+  readonly bPlus: { node: string; volts: number }[];
+  readonly observations: string[];
+  readonly note: string;
+}
+
+export interface TubeRecordInput {
+  readonly status: TubeStatus;
+  readonly foundType: string;
+  readonly testResult: string;
+  readonly note: string;
+}
+
+export interface ExportFile {
+  readonly filename: string;
+  readonly text: string;
+}
+
+/** What a refused "ready for first power" (409) names: open gate items and open lifted leads. */
+export function firstPowerReasons(err: unknown): string[] {
+  if (!(err instanceof HttpErrorResponse)) return [];
+  const details = (err.error as { error?: { details?: Record<string, unknown> } } | null)?.error?.details;
+  if (!details) return [];
+  const out: string[] = [];
+  for (const value of Object.values(details)) {
+    if (!Array.isArray(value)) continue;
+    for (const v of value) out.push(reasonText(v));
+  }
+  return out.filter((s) => s !== '');
+}
+
+function reasonText(v: unknown): string {
+  if (typeof v === 'string') return v;
+  if (typeof v !== 'object' || v === null) return '';
+  const r = v as Record<string, unknown>;
+  if (typeof r['title'] === 'string') return `Gate item not signed: ${r['title']}`;
+  if (typeof r['componentRef'] === 'string') return `Lifted lead not re-soldered: ${r['componentRef']}${typeof r['node'] === 'string' ? ' (end at ' + r['node'] + ')' : ''}`;
+  if (typeof r['message'] === 'string') return r['message'];
+  if (typeof r['key'] === 'string') return String(r['key']);
+  return '';
+}
+
+/** Caller shows these statuses itself (forms and refusals). */
+const formErrors = () => callerHandles(400, 409);
+const enc = (s: string | number) => encodeURIComponent(String(s));
+
+/** Every call of the sets, surveys-of-a-set and records API the set pages make. */
+@Injectable({ providedIn: 'root' })
+export class SetsApi {
+  private readonly http = inject(HttpClient);
+
+  list(query: SetQuery): Observable<SetPage> {
+    let params = new HttpParams().set('page', query.page).set('pageSize', query.pageSize);
+    if (query.q?.trim()) params = params.set('q', query.q.trim());
+    if (query.status) params = params.set('status', query.status);
+    return this.http.get<SetPage>('/api/sets', { params });
+  }
+  create(input: SetInput): Observable<SetDetail> {
+    return this.http.post<SetDetail>('/api/sets', input, { context: formErrors() });
+  }
+  get(id: number): Observable<SetDetail> {
+    return this.http.get<SetDetail>(`/api/sets/${id}`, { context: callerHandles(404) });
+  }
+  update(id: number, change: Partial<SetInput> & { version: number }): Observable<SetDetail> {
+    return this.http.patch<SetDetail>(`/api/sets/${id}`, change, { context: formErrors() });
+  }
+  share(id: number, userIds: readonly number[]): Observable<unknown> {
+    return this.http.put(`/api/sets/${id}/sharing`, { userIds }, { context: callerHandles(400, 403) });
+  }
+  saveTubeRecord(id: number, socketKey: string, input: TubeRecordInput): Observable<unknown> {
+    return this.http.put(`/api/sets/${id}/tube-records/${enc(socketKey)}`, input, { context: formErrors() });
+  }
+
+  surveys(id: number): Observable<SurveySummary[]> {
+    return this.http.get<SurveySummary[]>(`/api/sets/${id}/surveys`);
+  }
+  startSurvey(id: number, start: SurveyStart): Observable<SurveyView> {
+    return this.http.post<SurveyView>(`/api/sets/${id}/surveys`, start, { context: formErrors() });
+  }
+
+  liftedLeads(id: number): Observable<LiftedLeadRecord[]> {
+    return this.http.get<LiftedLeadRecord[]>(`/api/sets/${id}/lifted-leads`);
+  }
+  resolder(id: number, leadId: number, note: string, recheckReadingId: number | null = null): Observable<LiftedLeadRecord> {
+    const body = recheckReadingId === null ? { note } : { note, recheckReadingId };
+    return this.http.post<LiftedLeadRecord>(`/api/sets/${id}/lifted-leads/${leadId}/resolder`, body, { context: formErrors() });
+  }
+
+  gates(id: number): Observable<GatesView> {
+    return this.http.get<GatesView>(`/api/sets/${id}/gates`);
+  }
+  signGate(id: number, itemKey: string, note: string): Observable<unknown> {
+    return this.http.post(`/api/sets/${id}/gates/${enc(itemKey)}/sign`, { note }, { context: formErrors() });
+  }
+  reopenGate(id: number, itemKey: string, note: string): Observable<unknown> {
+    return this.http.post(`/api/sets/${id}/gates/${enc(itemKey)}/reopen`, { note }, { context: formErrors() });
+  }
+  /** 409 (nothing written) while a gate item or a lifted lead is open: see `firstPowerReasons`. */
+  firstPower(id: number, note = ''): Observable<unknown> {
+    return this.http.post(`/api/sets/${id}/first-power`, { note }, { context: formErrors() });
+  }
+
+  bringUp(id: number): Observable<BringUpEntry[]> {
+    return this.http.get<BringUpEntry[]>(`/api/sets/${id}/bring-up`);
+  }
+  addBringUp(id: number, entry: BringUpInput): Observable<BringUpEntry> {
+    return this.http.post<BringUpEntry>(`/api/sets/${id}/bring-up`, entry, { context: formErrors() });
+  }
+
+  partsRecord(id: number): Observable<PartsRecordLine[]> {
+    return this.http.get<PartsRecordLine[]>(`/api/sets/${id}/parts-record`);
+  }
+  addPartsLine(id: number, line: PartsLineInput): Observable<PartsLineSaved> {
+    return this.http.post<PartsLineSaved>(`/api/sets/${id}/parts-record`, line, { context: formErrors() });
+  }
+
+  replacements(id: number, surveyId?: number | null): Observable<ReplacementList> {
+    const params = surveyId ? new HttpParams().set('surveyId', surveyId) : undefined;
+    return this.http.get<ReplacementList>(`/api/sets/${id}/replacements`, { params });
+  }
+  replacementsCsv(id: number, surveyId?: number | null): Observable<ExportFile> {
+    let params = new HttpParams().set('format', 'csv');
+    if (surveyId) params = params.set('surveyId', surveyId);
+    return this.http
+      .get(`/api/sets/${id}/replacements`, { params, responseType: 'text', observe: 'response' })
+      .pipe(map((res) => fileOf(res, `set-${id}-replacements.csv`)));
+  }
+  markReplacement(id: number, componentKey: string, marks: { ordered: boolean; received: boolean }): Observable<unknown> {
+    return this.http.put(`/api/sets/${id}/replacements/${enc(componentKey)}/marks`, marks, { context: formErrors() });
+  }
+
+  history(id: number): Observable<SetHistory> {
+    return this.http.get<SetHistory>(`/api/sets/${id}/history`);
+  }
+  compare(id: number, a: number, b: number): Observable<SurveyCompare> {
+    return this.http.get<SurveyCompare>(`/api/sets/${id}/compare`, { params: new HttpParams().set('a', a).set('b', b), context: formErrors() });
+  }
+  record(id: number): Observable<SetRecordView> {
+    return this.http.get<SetRecordView>(`/api/sets/${id}/record`, { context: callerHandles(404) });
+  }
+
+  labels(id: number): Observable<ProvenanceLabel[]> {
+    return this.http.get<ProvenanceLabel[]>(`/api/sets/${id}/labels`);
+  }
+  /** 409 `public-base-url-missing` while the instance has no PUBLIC_BASE_URL. */
+  createLabel(id: number): Observable<ProvenanceLabel> {
+    return this.http.post<ProvenanceLabel>(`/api/sets/${id}/labels`, {}, { context: formErrors() });
+  }
+  revokeLabel(id: number, labelId: number): Observable<unknown> {
+    return this.http.post(`/api/sets/${id}/labels/${labelId}/revoke`, {}, { context: formErrors() });
+  }
+
+  exportSets(format: 'json' | 'csv'): Observable<ExportFile> {
+    return this.http
+      .get('/api/export/sets', { params: new HttpParams().set('format', format), responseType: 'text', observe: 'response' })
+      .pipe(map((res) => fileOf(res, `driftmark-sets.${format}`)));
+  }
+}
+
+/** The file a text download answers: its name from Content-Disposition, or the fallback. */
+function fileOf(res: HttpResponse<string>, fallback: string): ExportFile {
+  const header = res.headers.get('Content-Disposition');
+  const m = header ? /filename="([^"]+)"/.exec(header) : null;
+  return { filename: m ? m[1] : fallback, text: res.body ?? '' };
+}
+
+/** Saves text as a file through a temporary link (the browser's own download). */
+export function downloadText(filename: string, text: string, type: string): void {
+  const url = URL.createObjectURL(new Blob([text], { type }));
+  const a = document.createElement('a');
+  a.href = url;
+  a.download = filename;
+  document.body.appendChild(a);
+  a.click();
+  a.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 0);
+}
