@@ -1,4 +1,21 @@
 import { Routes } from '@angular/router';
 
-/** `/meters/...` (filled in by the bench-survey work). */
-export default [] satisfies Routes;
+/** `/meters/...`: the caller's own meter profiles (the parent route guards these with signedIn). */
+export default [
+  {
+    path: '',
+    pathMatch: 'full',
+    title: 'Meter profiles · Driftmark',
+    loadComponent: () => import('./meter-list/meter-list').then((m) => m.MeterList),
+  },
+  {
+    path: 'new',
+    title: 'New meter profile · Driftmark',
+    loadComponent: () => import('./meter-form/meter-form').then((m) => m.MeterForm),
+  },
+  {
+    path: ':id',
+    title: 'Meter profile · Driftmark',
+    loadComponent: () => import('./meter-form/meter-form').then((m) => m.MeterForm),
+  },
+] satisfies Routes;

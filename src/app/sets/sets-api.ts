@@ -19,8 +19,9 @@ import type {
   TubeStatus,
   VerdictCounts,
 } from '@domain/set-format';
-import type { GateItemState } from '@domain/gates';
-import type { BandSource, Method, ReadingState, SurveyPurpose, Verdict } from '@domain/words';
+import type { GateItemState, GatesView as DomainGatesView } from '@domain/gates';
+import type { CompareRow, PartInstance } from '@domain/part-history';
+import type { SurveyPurpose, Verdict } from '@domain/words';
 import { callerHandles } from '../core/errors/api-error';
 
 // ---------------------------------------------------------------------------------------------
@@ -45,12 +46,8 @@ export interface SetQuery {
 /** One checklist item of the set's safety gates with its newest record (api/domain/gates.ts). */
 export type GateItem = GateItemState<PersonRef | null>;
 
-/** GET /api/sets/:id/gates */
-export interface GatesView {
-  readonly items: readonly GateItem[];
-  readonly openLiftedLeads?: readonly LiftedLeadRecord[];
-  readonly firstPower: { readonly at: string; readonly by: PersonRef | null; readonly note?: string } | null;
-}
+/** GET /api/sets/:id/gates (api/domain/gates.ts). */
+export type GatesView = DomainGatesView<PersonRef | null, LiftedLeadRecord>;
 
 export interface SuggestedValue {
   readonly text: string;
@@ -112,69 +109,16 @@ export interface ReplacementList {
   readonly capacitors: readonly CapacitorLine[];
 }
 
-export interface HistoryPoint {
-  readonly surveyId: number;
-  readonly date: string;
-  readonly text?: string;
-  readonly state?: ReadingState;
-  readonly ohms: number | null;
-  readonly driftPct: number | null;
-  /** U of the drift, % (k = 2). */
-  readonly uncertaintyPct: number | null;
-  readonly uncertaintyOhms?: number | null;
-  readonly verdict?: Verdict;
-  readonly meterName?: string | null;
-  readonly method?: Method;
-  /** The meter or the method differs from the point before. */
-  readonly meterChanged?: boolean;
-  readonly methodChanged?: boolean;
-}
-
-export interface HistoryRate {
-  readonly slopePctPerYear: number | null;
-  readonly interval?: { readonly low: number; readonly high: number };
-  readonly n?: number;
-  /** Why there is no rate (fewer than three surveys, spread within U). */
-  readonly reason?: string;
-}
-
-/** One part instance across the set's surveys (a replacement starts a new instance). */
-export interface PartHistory {
-  readonly componentKey: string;
-  readonly ref: string;
-  /** 1 = the original part; 2 … after each replacement. */
-  readonly instance: number;
-  readonly since?: string | null;
-  readonly nominalText?: string;
-  readonly band: { readonly lowPct: number; readonly highPct: number; readonly source?: BandSource } | null;
-  readonly points: readonly HistoryPoint[];
-  readonly rate: HistoryRate | null;
-  readonly projection?: { readonly note: string; readonly edge: 'high' | 'low' | null; readonly yearsAhead?: number; readonly reason?: string } | null;
-}
-
-/** GET /api/sets/:id/history */
+/** GET /api/sets/:id/history: each part instance across the set's surveys (api/domain/part-history.ts). */
 export interface SetHistory {
-  readonly parts: readonly PartHistory[];
+  readonly parts: readonly PartInstance[];
 }
 
-export interface CompareSide {
-  readonly text: string;
-  readonly ohms: number | null;
-  readonly verdict: Verdict;
-}
-
-/** GET /api/sets/:id/compare?a=&b= */
+/** GET /api/sets/:id/compare?a=&b= (api/domain/part-history.ts `compareRows`). */
 export interface SurveyCompare {
-  readonly a: SurveySummary;
-  readonly b: SurveySummary;
-  readonly rows: readonly {
-    readonly testPointKey: string;
-    readonly label: string;
-    readonly stageName?: string;
-    readonly a: CompareSide | null;
-    readonly b: CompareSide | null;
-    readonly changePct: number | null;
-  }[];
+  readonly a?: SurveySummary;
+  readonly b?: SurveySummary;
+  readonly rows: readonly CompareRow[];
 }
 
 /** GET /api/sets/:id/record: everything the printable record shows. */
@@ -357,10 +301,12 @@ export class SetsApi {
   }
 
   history(id: number): Observable<SetHistory> {
-    return this.http.get<SetHistory>(`/api/sets/${id}/history`);
+    return this.http.get<unknown>(`/api/sets/${id}/history`).pipe(map((answer) => ({ parts: listIn<PartInstance>(answer, 'parts', 'instances') })));
   }
   compare(id: number, a: number, b: number): Observable<SurveyCompare> {
-    return this.http.get<SurveyCompare>(`/api/sets/${id}/compare`, { params: new HttpParams().set('a', a).set('b', b), context: formErrors() });
+    return this.http
+      .get<unknown>(`/api/sets/${id}/compare`, { params: new HttpParams().set('a', a).set('b', b), context: formErrors() })
+      .pipe(map((answer) => ({ ...(Array.isArray(answer) ? {} : (answer as object)), rows: listIn<CompareRow>(answer, 'rows') })));
   }
   record(id: number): Observable<SetRecordView> {
     return this.http.get<SetRecordView>(`/api/sets/${id}/record`, { context: callerHandles(404) });
@@ -382,6 +328,18 @@ export class SetsApi {
       .get('/api/export/sets', { params: new HttpParams().set('format', format), responseType: 'text', observe: 'response' })
       .pipe(map((res) => fileOf(res, `driftmark-sets.${format}`)));
   }
+}
+
+/** The list an answer holds: the answer itself when it is an array, else the first named field that is one. */
+function listIn<T>(answer: unknown, ...fields: string[]): T[] {
+  if (Array.isArray(answer)) return answer as T[];
+  if (typeof answer === 'object' && answer !== null) {
+    for (const f of fields) {
+      const v = (answer as Record<string, unknown>)[f];
+      if (Array.isArray(v)) return v as T[];
+    }
+  }
+  return [];
 }
 
 /** The file a text download answers: its name from Content-Disposition, or the fallback. */

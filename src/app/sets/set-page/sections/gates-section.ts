@@ -23,7 +23,7 @@ import { GateItem, GatesView, SetsApi, firstPowerReasons } from '../../sets-api'
   imports: [DatePipe, ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, SafetyCaution],
   template: `
     <dm-safety-caution />
-    <p class="notice"><mat-icon aria-hidden="true" class="small">info</mat-icon> {{ notice }}</p>
+    <p class="notice"><mat-icon aria-hidden="true" class="small">info</mat-icon> {{ view()?.notice || notice }}</p>
     @if (loading()) {
       <mat-progress-bar mode="indeterminate" aria-label="Loading the gates" />
     }
@@ -74,6 +74,9 @@ import { GateItem, GatesView, SetsApi, firstPowerReasons } from '../../sets-api'
             Records that every gate item is signed and every lifted lead re-soldered. It does not say the set is fit to power:
             bring it up slowly through a limiter, and stay with it.
           </p>
+          @if (v.blockers.length && !refusal()) {
+            <p>Still open: {{ v.blockers.length }} ({{ blockerNames(v) }}).</p>
+          }
           <button mat-flat-button type="button" class="dm-touch" [disabled]="busy()" (click)="firstPower()">
             <mat-icon aria-hidden="true">power_settings_new</mat-icon>
             Ready for first power
@@ -119,6 +122,10 @@ export class GatesSection implements OnInit {
 
   ngOnInit(): void {
     this.load();
+  }
+
+  protected blockerNames(v: GatesView): string {
+    return v.blockers.map((b) => (b.kind === 'gate-item' ? b.title : `lifted lead ${b.componentRef} at ${b.node}`)).join('; ');
   }
 
   protected noteFor(key: string): FormControl<string> {

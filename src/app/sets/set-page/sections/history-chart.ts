@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import type { ChartConfiguration, Plugin } from 'chart.js';
 import { BaseChartDirective, provideCharts, withDefaultRegisterables } from 'ng2-charts';
-import type { PartHistory } from '../../sets-api';
+import type { PartInstance } from '@domain/part-history';
 
 const YEAR_MS = 365.25 * 24 * 3600 * 1000;
 
@@ -22,10 +22,10 @@ export interface ChartPoint {
 }
 
 /** The readable points of a part instance (states and missing drifts are left out of the chart; the table shows them). */
-export function chartPoints(part: PartHistory): ChartPoint[] {
+export function chartPoints(part: PartInstance): ChartPoint[] {
   return part.points
     .filter((p) => p.driftPct !== null && Number.isFinite(p.driftPct))
-    .map((p) => ({ x: decimalYear(p.date), y: p.driftPct!, u: p.uncertaintyPct, changed: Boolean(p.meterChanged || p.methodChanged) }));
+    .map((p) => ({ x: decimalYear(p.at), y: p.driftPct!, u: p.uncertaintyPct, changed: p.marks.includes('meter-changed') || p.marks.includes('method-changed') }));
 }
 
 /** Draws each point's uncertainty as a vertical whisker from y − U to y + U (Chart.js has no error bars). */
@@ -64,8 +64,13 @@ function token(name: string, fallback: string): string {
   return v && !v.startsWith('light-dark') ? v : fallback;
 }
 
+/** The part's band (signed percent): the newest point's. */
+export function bandOf(part: PartInstance): { lowPct: number; highPct: number } | null {
+  return [...part.points].reverse().find((p) => p.band !== null)?.band ?? null;
+}
+
 /** The chart's configuration: the band shaded between its limits, the readings with their U whiskers. */
-export function historyChartConfig(part: PartHistory): ChartConfiguration<'line', ChartPoint[]> {
+export function historyChartConfig(part: PartInstance): ChartConfiguration<'line', ChartPoint[]> {
   const points = chartPoints(part);
   const xs = points.map((p) => p.x);
   const from = xs.length ? Math.min(...xs) - 0.25 : 0;
@@ -73,10 +78,11 @@ export function historyChartConfig(part: PartHistory): ChartConfiguration<'line'
   const primary = token('--mat-sys-primary', '#3f51b5');
   const band = token('--mat-sys-secondary', '#607d8b');
   const datasets: ChartConfiguration<'line', ChartPoint[]>['data']['datasets'] = [];
-  if (part.band) {
+  const b = bandOf(part);
+  if (b) {
     datasets.push(
-      { label: `Band upper limit (${part.band.highPct > 0 ? '+' : ''}${part.band.highPct} %)`, data: [{ x: from, y: part.band.highPct, u: null, changed: false }, { x: to, y: part.band.highPct, u: null, changed: false }], borderColor: band, borderDash: [6, 4], pointRadius: 0, fill: false },
-      { label: `Band lower limit (${part.band.lowPct} %)`, data: [{ x: from, y: part.band.lowPct, u: null, changed: false }, { x: to, y: part.band.lowPct, u: null, changed: false }], borderColor: band, borderDash: [6, 4], pointRadius: 0, fill: { target: '-1' }, backgroundColor: 'rgba(96, 125, 139, 0.15)' },
+      { label: `Band upper limit (${b.highPct > 0 ? '+' : ''}${b.highPct} %)`, data: [{ x: from, y: b.highPct, u: null, changed: false }, { x: to, y: b.highPct, u: null, changed: false }], borderColor: band, borderDash: [6, 4], pointRadius: 0, fill: false },
+      { label: `Band lower limit (${b.lowPct} %)`, data: [{ x: from, y: b.lowPct, u: null, changed: false }, { x: to, y: b.lowPct, u: null, changed: false }], borderColor: band, borderDash: [6, 4], pointRadius: 0, fill: { target: '-1' }, backgroundColor: 'rgba(96, 125, 139, 0.15)' },
     );
   }
   datasets.push({
@@ -125,11 +131,12 @@ export function historyChartConfig(part: PartHistory): ChartConfiguration<'line'
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class HistoryChart {
-  readonly part = input.required<PartHistory>();
+  readonly part = input.required<PartInstance>();
   protected readonly config = computed(() => historyChartConfig(this.part()));
   protected readonly summary = computed(() => {
     const p = this.part();
     const n = chartPoints(p).length;
-    return `Chart of the drift of ${p.ref} over ${n} survey${n === 1 ? '' : 's'}${p.band ? `, band ${p.band.lowPct} % to +${p.band.highPct} %` : ''}; the table below gives the values.`;
+    const b = bandOf(p);
+    return `Chart of the drift of ${p.ref} over ${n} survey${n === 1 ? '' : 's'}${b ? `, band ${b.lowPct} % to +${b.highPct} %` : ''}; the table below gives the values.`;
   });
 }

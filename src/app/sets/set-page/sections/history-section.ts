@@ -9,16 +9,32 @@ import type { SetDetail } from '@domain/set-format';
 import { apiErrorOf } from '../../../core/errors/api-error';
 import { VerdictBadge } from '../../../shared/verdict-badge/verdict-badge';
 import { PURPOSE_LABELS, pctText } from '../../set-words';
-import { PartHistory, SetHistory, SetsApi, SurveyCompare } from '../../sets-api';
-import { HistoryChart } from './history-chart';
+import { formatOhms } from '@domain/notation';
+import type { HistoryPoint, PartInstance } from '@domain/part-history';
+import { SetHistory, SetsApi, SurveyCompare } from '../../sets-api';
+import { HistoryChart, bandOf } from './history-chart';
 
 /** The drift rate in words: `+1.20 %/year (95 % interval +0.40 to +2.00 %/year, 4 surveys)`, or why there is none. */
-export function rateText(part: PartHistory): string {
+export function rateText(part: PartInstance): string {
   const r = part.rate;
-  if (!r || r.slopePctPerYear === null) return `No rate: ${r?.reason ?? 'it takes three surveys or more whose spread exceeds U'}.`;
+  if (r.slopePctPerYear === null) return `No rate: ${r.reason.replace(/\.$/, '')}.`;
   const f = (x: number) => `${x > 0 ? '+' : x < 0 ? '−' : ''}${Math.abs(x).toFixed(2)}`;
-  const interval = r.interval ? ` (95 % interval ${f(r.interval.low)} to ${f(r.interval.high)} %/year${r.n ? ', ' + r.n + ' surveys' : ''})` : '';
-  return `Drift rate ${f(r.slopePctPerYear)} %/year${interval}.`;
+  return `Drift rate ${f(r.slopePctPerYear)} %/year (95 % interval ${f(r.interval.low)} to ${f(r.interval.high)} %/year, ${r.n} surveys).`;
+}
+
+/** The projection to the band edge in words, always labelled as an extrapolation. */
+export function projectionText(part: PartInstance): string | null {
+  const p = part.projection;
+  if (!p) return null;
+  if (p.edge === null) return `Extrapolation: ${p.reason}. ${p.note}.`;
+  const latest = p.range.latestYearsAhead === null ? 'never, within the interval' : `${p.range.latestYearsAhead.toFixed(1)} years`;
+  return `Extrapolation: the fitted line meets the ${p.edge} band edge in about ${p.yearsAhead.toFixed(1)} years (soonest ${p.range.soonestYearsAhead.toFixed(1)} years, latest ${latest}). ${p.note}.`;
+}
+
+/** A point's value as read: `5.6 kΩ`, or its state. */
+export function pointText(p: HistoryPoint): string {
+  if (p.state !== 'value' || p.ohms === null) return p.state.replace(/-/g, ' ');
+  return formatOhms(p.ohms) + (p.valueFrom === 'implied' ? ' (implied)' : '');
 }
 
 /**
@@ -45,9 +61,9 @@ export function rateText(part: PartHistory): string {
           <h3 [id]="'part-' + part.componentKey + '-' + part.instance">
             {{ part.ref }}
             <span class="sub">
-              {{ part.instance === 1 ? 'original part' : 'replacement ' + (part.instance - 1) + (part.since ? ', fitted ' + (part.since | date: 'mediumDate') : '') }}
-              {{ part.nominalText ? '· nominal ' + part.nominalText : '' }}
-              {{ part.band ? '· band ' + part.band.lowPct + ' % to +' + part.band.highPct + ' %' + (part.band.source ? ' (' + part.band.source + ')' : '') : '' }}
+              {{ part.original ? 'original part' : 'replacement ' + (part.instance - 1) + (part.startedBy ? ' (' + part.startedBy.text + '), fitted ' + (part.startedBy.at | date: 'mediumDate') : '') }}
+              {{ part.endedBy ? '· replaced ' + (part.endedBy.at | date: 'mediumDate') : '' }}
+              {{ band(part) ? '· band ' + band(part)!.lowPct + ' % to +' + band(part)!.highPct + ' %' : '' }}
             </span>
           </h3>
           @defer (on idle) {
@@ -56,12 +72,8 @@ export function rateText(part: PartHistory): string {
             <p class="sub">Chart loading…</p>
           }
           <p class="rate">{{ rate(part) }}</p>
-          @if (part.projection; as pr) {
-            <p class="sub">
-              Extrapolation:
-              {{ pr.edge ? 'the fitted line meets the ' + pr.edge + ' band edge in about ' + (pr.yearsAhead ?? 0).toFixed(1) + ' years' : pr.reason }}.
-              {{ pr.note }}
-            </p>
+          @if (projection(part); as text) {
+            <p class="sub">{{ text }}</p>
           }
           <div class="table-wrap">
             <table class="plain" [attr.aria-label]="'Readings of ' + part.ref + ' over time'">
@@ -76,21 +88,22 @@ export function rateText(part: PartHistory): string {
                 </tr>
               </thead>
               <tbody>
-                @for (p of part.points; track p.surveyId) {
+                @for (p of part.points; track p.readingId) {
                   <tr>
-                    <td>{{ p.date | date: 'mediumDate' }}</td>
-                    <td>{{ p.text ?? p.state ?? '' }}</td>
+                    <td>{{ p.at | date: 'mediumDate' }}</td>
+                    <td>{{ reading(p) }}</td>
                     <td class="num">{{ pct(p.driftPct) }}</td>
                     <td class="num">{{ p.uncertaintyPct !== null ? '±' + p.uncertaintyPct.toFixed(1) + ' %' : '—' }}</td>
                     <td>
-                      @if (p.verdict) {
-                        <dm-verdict-badge [verdict]="p.verdict" />
-                      }
+                      <dm-verdict-badge [verdict]="p.verdict" />
                     </td>
                     <td>
-                      {{ p.meterName ?? 'no meter profile' }}{{ p.method ? ', ' + p.method.replace('-', ' ') : '' }}
-                      @if (p.meterChanged || p.methodChanged) {
-                        <div class="sub"><mat-icon aria-hidden="true" class="small">change_history</mat-icon> {{ p.meterChanged ? 'meter changed' : 'method changed' }} (triangle in the chart)</div>
+                      {{ p.meter ?? 'no meter profile' }}, {{ p.method.replace('-', ' ') }}
+                      @if (p.marks.includes('meter-changed') || p.marks.includes('method-changed')) {
+                        <div class="sub">
+                          <mat-icon aria-hidden="true" class="small">change_history</mat-icon>
+                          {{ p.marks.includes('meter-changed') ? 'meter changed' : 'method changed' }} (triangle in the chart)
+                        </div>
                       }
                     </td>
                   </tr>
@@ -135,15 +148,15 @@ export function rateText(part: PartHistory): string {
               <thead>
                 <tr>
                   <th scope="col">Test point</th>
-                  <th scope="col">Before ({{ c.a.startedAt | date: 'mediumDate' }})</th>
-                  <th scope="col">After ({{ c.b.startedAt | date: 'mediumDate' }})</th>
+                  <th scope="col">Before{{ c.a ? ' (' + (c.a.startedAt | date: 'mediumDate') + ')' : '' }}</th>
+                  <th scope="col">After{{ c.b ? ' (' + (c.b.startedAt | date: 'mediumDate') + ')' : '' }}</th>
                   <th scope="col" class="num">Change</th>
                 </tr>
               </thead>
               <tbody>
                 @for (r of c.rows; track r.testPointKey) {
                   <tr>
-                    <th scope="row">{{ r.label }}@if (r.stageName) {<div class="sub">{{ r.stageName }}</div>}</th>
+                    <th scope="row">{{ r.label }}<div class="sub">{{ r.stageName }}</div></th>
                     <td>
                       @if (r.a; as x) {
                         {{ x.text }} <dm-verdict-badge [verdict]="x.verdict" />
@@ -158,7 +171,12 @@ export function rateText(part: PartHistory): string {
                         <span class="sub">not read</span>
                       }
                     </td>
-                    <td class="num">{{ pct(r.changePct) }}</td>
+                    <td class="num">
+                      {{ pct(r.changePct) }}
+                      @if (r.methodChanged) {
+                        <div class="sub">method changed</div>
+                      }
+                    </td>
                   </tr>
                 }
               </tbody>
@@ -179,6 +197,9 @@ export class HistorySection implements OnInit {
   protected readonly purposes = PURPOSE_LABELS;
   protected readonly pct = pctText;
   protected readonly rate = rateText;
+  protected readonly projection = projectionText;
+  protected readonly reading = pointText;
+  protected readonly band = bandOf;
   protected readonly history = signal<SetHistory | null>(null);
   protected readonly loading = signal(true);
   protected readonly error = signal<string | null>(null);
