@@ -10,7 +10,7 @@ import { pino, type Logger } from 'pino';
 import { pinoHttp } from 'pino-http';
 import { createAuthGuards } from './auth/guards';
 import type { AppConfig } from './config';
-import type { Ctx } from './context';
+import type { Ctx, Faults } from './context';
 import type { Database } from './db';
 import { apiNotFound, errorMiddleware } from './http/errors';
 import { mountRoutes, type RouteDef } from './http/route-table';
@@ -25,6 +25,8 @@ export interface AppDeps {
   log?: Logger;
   /** Where uploads live; by default what the settings say (a folder under the data folder). */
   storage?: Storage;
+  /** Fault seams around the commit of a save (specs: spec/api/reading-faults.spec.ts); default none. */
+  faults?: Faults;
 }
 
 /** The content security policy (decision recorded in DEVELOPERS.md). */
@@ -55,7 +57,7 @@ export function linkBaseOf(config: AppConfig): string {
 export function createApp(deps: AppDeps): Express & { routeTable: readonly RouteDef[] } {
   const { config, database } = deps;
   const log = deps.log ?? pino({ level: config.nodeEnv === 'test' ? 'silent' : 'info' });
-  const ctx: Ctx = { db: database.db, config, outbox: deps.outbox, linkBase: linkBaseOf(config), storage: deps.storage ?? storageFromConfig(config) };
+  const ctx: Ctx = { db: database.db, config, outbox: deps.outbox, linkBase: linkBaseOf(config), storage: deps.storage ?? storageFromConfig(config), ...(deps.faults ? { faults: deps.faults } : {}) };
   const app = express() as Express & { routeTable: readonly RouteDef[] };
   app.set('trust proxy', config.trustProxy);
   app.disable('x-powered-by');

@@ -15,7 +15,7 @@ import { owned, type Body, type WriteRoute } from '../support/bad-input-kit';
 import { BENCH_BAD_INPUT } from './rows/index';
 
 /** Free text that may legitimately hold quotes and SQL-looking words (stored verbatim, never run). */
-const FREE_TEXT = ['password', 'name', 'note', 'changelog', 'reason'];
+const FREE_TEXT = ['password', 'name', 'note', 'changelog', 'reason', 'label'];
 /** Fields that take text or a number alike. */
 const TEXT_OR_NUMBER = ['reading'];
 /** Secrets: any printable character goes. */

@@ -11,7 +11,7 @@ import type { MeterProfile } from '../../api/domain/meter';
 import type { SetDeviation, SurveyConditions } from '../../api/domain/set-format';
 import { DEFAULT_RULE, type AcceptanceRule } from '../../api/domain/verdict';
 import type { Method, ReadingState, SurveyPurpose, SurveyState } from '../../api/domain/words';
-import { meterProfiles, readings, setShares, sets, surveys, templateVersions, type Role } from '../../schema/index';
+import { liftedLeads, meterProfiles, readings, setShares, sets, surveys, templateVersions, type Role } from '../../schema/index';
 import { apiEnv, makeUser } from './api-env';
 import { workedMeter } from './meters';
 import { makeTemplate } from './template-fixtures';
@@ -161,11 +161,11 @@ export async function makeSurvey(
     templateVersionId = v.id;
   }
   let meterProfileId: number | null = opts.meterProfileId ?? null;
-  let meter: { name: string; profile: MeterProfile; checkDate: string | null } | null = null;
+  let meter: { name: string; profile: MeterProfile; checkDate: string | null; checkResistorOhms: number | null; checkResistorTolerancePct: number | null } | null = null;
   if (opts.meter !== false) {
     if (meterProfileId === null) meterProfileId = (await makeMeterProfile({ ownerId })).id;
     const [m] = await db.select().from(meterProfiles).where(eq(meterProfiles.id, meterProfileId));
-    meter = { name: m.name, profile: m.profile as MeterProfile, checkDate: m.checkDate };
+    meter = { name: m.name, profile: m.profile as MeterProfile, checkDate: m.checkDate, checkResistorOhms: m.checkResistorOhms, checkResistorTolerancePct: m.checkResistorTolerancePct };
   }
   const state = opts.state ?? 'draft';
   const [row] = await db
@@ -242,5 +242,30 @@ export async function addReading(
       ...(opts.takenAt ? { takenAt: opts.takenAt } : {}),
     })
     .returning({ id: readings.id });
+  return row.id;
+}
+
+/**
+ * An open lifted lead of a set (R2's end 1 at B+1 by default), inserted directly. Returns its id.
+ */
+export async function makeLiftedLead(
+  setId: number,
+  opts: { surveyId?: number | null; componentKey?: string; componentRef?: string; end?: 0 | 1; node?: string; liftedBy?: number | null; promptedByReadingId?: number | null; resoldered?: boolean } = {},
+): Promise<number> {
+  const env = await apiEnv();
+  const [row] = await env.database.db
+    .insert(liftedLeads)
+    .values({
+      setId,
+      surveyId: opts.surveyId ?? null,
+      componentKey: opts.componentKey ?? 'c-r2',
+      componentRef: opts.componentRef ?? 'R2',
+      end: opts.end ?? 1,
+      node: opts.node ?? 'B+1',
+      liftedBy: opts.liftedBy ?? null,
+      promptedByReadingId: opts.promptedByReadingId ?? null,
+      ...(opts.resoldered ? { resolderedAt: new Date() } : {}),
+    })
+    .returning({ id: liftedLeads.id });
   return row.id;
 }

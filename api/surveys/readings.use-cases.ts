@@ -1,0 +1,319 @@
+/**
+ * Readings (DESIGN.md §2 "reading", issue #5 item 3): POST is idempotent by the client's key —
+ * a replay returns the stored reading (200), never a duplicate and never a conflict with itself;
+ * edits carry a version and a stale one is a 409 with both values. Text the measurement core
+ * cannot parse is refused 400 with the core's message, and nothing is stored.
+ *
+ * The save is one statement (one round trip): it checks the caller may see the set, that the
+ * survey is a draft and that a followed reading belongs to the same test point, inserts with
+ * `ON CONFLICT (survey_id, client_key) DO NOTHING`, and answers the stored row of a replay. With
+ * fault seams (specs) the statement runs in a transaction and the seams run just before COMMIT and
+ * right after it.
+ */
+import { randomBytes } from 'node:crypto';
+import { eq, sql } from 'drizzle-orm';
+import { readings } from '../../schema/index';
+import type { Ctx } from '../context';
+import type { ReadingConflict, ReadingEdit, ReadingEvaluation, ReadingInput, ReadingRecord, ReadingSaved } from '../domain/set-format';
+import { GridInputError, parseReadingText, type SurveyGrid } from '../domain/survey-grid';
+import type { MeterProfile } from '../domain/meter';
+import type { Method, ReadingState } from '../domain/words';
+import type { Tx } from '../db';
+import { AppError, badRequest, conflict, notFound } from '../http/errors';
+import type { Actor } from '../sets/sets.repository';
+import { cachedGrid, cachedRows, gridOf, gridReadingOf, meterOf } from './survey-view';
+import * as repo from './surveys.repository';
+
+export const NOT_DRAFT_MESSAGE = 'This survey is complete: add an amendment (who, when, why) to change it.';
+
+/** The message of a refused reading text: the measurement core's own words. */
+function parseOrRefuse(text: string, meter: MeterProfile | null, rangeIndex: number | null | undefined): { state: ReadingState; ohms: number | null } {
+  try {
+    return parseReadingText(text, meter, rangeIndex);
+  } catch (e) {
+    if (e instanceof GridInputError) throw badRequest(e.message, 'text', 'unparsable-reading');
+    throw e;
+  }
+}
+
+/** What a row needs of a reading: the test point exists, is not a pair relation, method and lifted end fit. */
+function checkAgainstRow(row: { kind: string } | undefined, input: { testPointKey: string; method?: Method; liftedEnd?: 0 | 1 | null }): void {
+  if (row === undefined) throw badRequest(`"testPointKey": this survey's template version has no test point ${input.testPointKey}.`, 'testPointKey', 'validation');
+  if (row.kind === 'pair-relation') throw badRequest(`"testPointKey": ${input.testPointKey} is a pair relation, judged on the ratio of its two positions' readings.`, 'testPointKey', 'validation');
+  checkLiftedEnd(row.kind, input.method ?? 'in-circuit', input.liftedEnd ?? null);
+}
+
+function checkLiftedEnd(kind: string, method: Method, liftedEnd: number | null): void {
+  if (method !== 'lead-lifted' && liftedEnd !== null) throw badRequest('"liftedEnd" goes only with method lead-lifted.', 'liftedEnd', 'validation');
+  if (method === 'lead-lifted' && kind === 'component-check' && liftedEnd === null) throw badRequest('"liftedEnd": say which end of the component was lifted (0 or 1).', 'liftedEnd', 'validation');
+}
+
+function checkRange(meter: MeterProfile | null, rangeIndex: number | null | undefined): void {
+  if (rangeIndex === null || rangeIndex === undefined) return;
+  if (meter === null) throw badRequest('"rangeIndex": this survey has no meter profile, so no ranges.', 'rangeIndex', 'validation');
+  if (rangeIndex >= meter.ranges.length) throw badRequest(`"rangeIndex": the survey's meter has ${meter.ranges.length} range(s), numbered from 0.`, 'rangeIndex', 'validation');
+}
+
+/** Either what was typed or a state key, never both. */
+function textOrState(input: { text?: string; state?: Exclude<ReadingState, 'value'> }, meter: MeterProfile | null, rangeIndex: number | null | undefined): { text: string; state: ReadingState; ohms: number | null } {
+  if (input.text !== undefined && input.state !== undefined) throw badRequest('Send what was typed ("text") or a state key ("state"), not both.', 'state', 'validation');
+  if (input.text === undefined && input.state === undefined) throw badRequest('A reading needs what was typed ("text") or a state key ("state").', 'text', 'validation');
+  if (input.state !== undefined) return { text: '', state: input.state, ohms: null };
+  const p = parseOrRefuse(input.text!, meter, rangeIndex);
+  return { text: input.text!.trim(), ...p };
+}
+
+type RawReading = {
+  id: number;
+  survey_id: number;
+  test_point_key: string;
+  client_key: string;
+  follows_reading_id: number | null;
+  text: string;
+  state: ReadingState;
+  ohms: number | null;
+  method: Method;
+  lifted_end: number | null;
+  range_index: number | null;
+  note: string;
+  prediction: string | null;
+  entered_by: number | null;
+  entered_by_name: string | null;
+  taken_at: string;
+  version: number;
+  updated_at: string;
+};
+
+const recordOfRaw = (r: RawReading): ReadingRecord =>
+  repo.readingRecordOf({
+    id: Number(r.id),
+    surveyId: r.survey_id,
+    testPointKey: r.test_point_key,
+    clientKey: r.client_key,
+    followsReadingId: r.follows_reading_id,
+    text: r.text,
+    state: r.state,
+    ohms: r.ohms,
+    method: r.method,
+    liftedEnd: r.lifted_end,
+    rangeIndex: r.range_index,
+    note: r.note,
+    prediction: r.prediction,
+    enteredBy: r.entered_by,
+    enteredByName: r.entered_by_name,
+    takenAt: new Date(r.taken_at),
+    version: r.version,
+    updatedAt: new Date(r.updated_at),
+  });
+
+const visibleSql = (user: Actor) =>
+  user.roles.includes('admin') ? sql`true` : sql`(s.owner_id = ${user.id} OR EXISTS (SELECT 1 FROM set_shares sh WHERE sh.set_id = s.id AND sh.user_id = ${user.id}))`;
+
+/** The grid of a survey at the versions the save saw (cached), for the verdict of the answer. */
+async function gridAt(tx: Tx, surveyId: number, surveyVersion: number, setVersion: number, user: Actor): Promise<SurveyGrid> {
+  const hit = cachedGrid(surveyId, surveyVersion, setVersion);
+  if (hit) return hit;
+  const { survey, access } = await repo.visibleSurvey(tx, user, surveyId);
+  return gridOf(tx, survey, access.set);
+}
+
+function evaluationOf(grid: SurveyGrid, r: ReadingRecord, jointChecked: boolean): ReadingEvaluation {
+  return grid.evaluate(gridReadingOf(r), { jointChecked });
+}
+
+/** POST /api/surveys/:id/readings */
+export async function saveReading(ctx: Ctx, user: Actor, surveyId: number, input: ReadingInput): Promise<{ status: 200 | 201; body: ReadingSaved }> {
+  let known = cachedRows(surveyId);
+  if (known === undefined || !known.rows.has(input.testPointKey)) {
+    // First save of this survey in this process, or a key it does not know: decide access first (404 before 400).
+    const { survey, access } = await repo.visibleSurvey(ctx.db, user, surveyId);
+    await gridOf(ctx.db, survey, access.set);
+    known = cachedRows(surveyId)!;
+  }
+  const meter = known.meter;
+  checkAgainstRow(known.rows.get(input.testPointKey), input);
+  checkRange(meter, input.rangeIndex);
+  const value = textOrState(input, meter, input.rangeIndex);
+
+  const follows = input.followsReadingId ?? null;
+  const statement = sql`
+    WITH acc AS (
+      SELECT sv.id, sv.state::text AS state, sv.version AS survey_version, s.version AS set_version,
+             (sv.joint_checks ? ${input.testPointKey}) AS joint_checked,
+             (${follows}::bigint IS NULL OR EXISTS (
+               SELECT 1 FROM readings f WHERE f.id = ${follows}::bigint AND f.survey_id = sv.id AND f.test_point_key = ${input.testPointKey})) AS follows_ok
+      FROM surveys sv JOIN sets s ON s.id = sv.set_id
+      WHERE sv.id = ${surveyId} AND ${visibleSql(user)}
+    ), ins AS (
+      INSERT INTO readings (survey_id, test_point_key, client_key, follows_reading_id, text, state, ohms, method, lifted_end, range_index, note, prediction, entered_by, taken_at)
+      SELECT acc.id, ${input.testPointKey}, ${input.clientKey}, ${follows}::bigint, ${value.text}, ${value.state}::reading_state, ${value.ohms}::float8,
+             ${input.method ?? 'in-circuit'}::reading_method, ${input.liftedEnd ?? null}::smallint, ${input.rangeIndex ?? null}::smallint,
+             ${input.note ?? ''}, ${input.prediction ?? null}, ${user.id}, coalesce(${input.takenAt ?? null}::timestamptz, now())
+      FROM acc WHERE acc.state = 'draft' AND acc.follows_ok
+      ON CONFLICT (survey_id, client_key) DO NOTHING
+      RETURNING *
+    )
+    SELECT acc.state, acc.survey_version, acc.set_version, acc.joint_checked, acc.follows_ok,
+      (SELECT row_to_json(x) FROM (SELECT i.*, (SELECT u.name FROM users u WHERE u.id = i.entered_by) AS entered_by_name FROM ins i) x) AS inserted,
+      (SELECT row_to_json(x) FROM (SELECT r.*, u.name AS entered_by_name FROM readings r LEFT JOIN users u ON u.id = r.entered_by
+                                   WHERE r.survey_id = acc.id AND r.client_key = ${input.clientKey}) x) AS existing
+    FROM acc`;
+  type Out = { state: string; survey_version: number; set_version: number; joint_checked: boolean; follows_ok: boolean; inserted: RawReading | null; existing: RawReading | null };
+  let out: Out | undefined;
+  if (ctx.faults) {
+    const faults = ctx.faults;
+    out = await ctx.db.transaction(async (tx) => {
+      const r = await tx.execute<Out>(statement);
+      await faults.around('reading-save', 'before-commit');
+      return r.rows[0];
+    });
+    await faults.around('reading-save', 'after-commit');
+  } else out = (await ctx.db.execute<Out>(statement)).rows[0];
+
+  if (out === undefined) throw notFound('No such survey.');
+  let reading: ReadingRecord;
+  let status: 200 | 201;
+  if (out.existing) {
+    reading = recordOfRaw(out.existing);
+    status = 200;
+  } else if (out.state !== 'draft') throw conflict(NOT_DRAFT_MESSAGE, 'survey-not-draft');
+  else if (!out.follows_ok) throw badRequest(`"followsReadingId": reading ${follows} is not a reading of ${input.testPointKey} in this survey.`, 'followsReadingId', 'validation');
+  else if (out.inserted) {
+    reading = recordOfRaw(out.inserted);
+    status = 201;
+  } else {
+    // The same key stored concurrently by another request: this one is its replay.
+    const stored = await repo.findReadingByClientKey(ctx.db, surveyId, input.clientKey);
+    if (!stored) throw new AppError(503, 'retry', 'The reading could not be saved just now; send it again (same client key).', undefined, { 'Retry-After': '1' });
+    reading = stored;
+    status = 200;
+  }
+  const grid = await gridAt(ctx.db, surveyId, out.survey_version, out.set_version, user);
+  return { status, body: { reading, evaluation: evaluationOf(grid, reading, out.joint_checked), replayed: status === 200 } };
+}
+
+/** PATCH /api/surveys/:id/readings/:readingId — a draft's reading; a stale version is a 409 with both values. */
+export async function editReading(ctx: Ctx, user: Actor, surveyId: number, readingId: number, edit: ReadingEdit): Promise<ReadingSaved> {
+  return ctx.db.transaction(async (tx) => {
+    const { survey, access } = await repo.visibleSurvey(tx, user, surveyId, true);
+    const current = await repo.findReading(tx, surveyId, readingId, true);
+    if (!current) throw notFound('No such reading in this survey.');
+    const grid = await gridOf(tx, survey, access.set);
+    const meter = meterOf(survey);
+    // Shape problems of the edit itself first (400), then the state of things (409).
+    const row = grid.row(current.testPointKey)!;
+    const method = edit.method ?? current.method;
+    const rangeIndex = edit.rangeIndex !== undefined ? edit.rangeIndex : current.rangeIndex;
+    checkRange(meter, rangeIndex);
+    let value: { text: string; state: ReadingState; ohms: number | null } | null = null;
+    if (edit.text !== undefined || edit.state !== undefined) value = textOrState(edit, meter, rangeIndex);
+    const liftedEnd = edit.liftedEnd !== undefined ? edit.liftedEnd : method === 'lead-lifted' ? current.liftedEnd : null;
+    checkLiftedEnd(row.kind, method, liftedEnd);
+    if (survey.state !== 'draft') throw conflict(NOT_DRAFT_MESSAGE, 'survey-not-draft');
+    if (current.version !== edit.version) {
+      const details: ReadingConflict = { current, yours: edit };
+      throw conflict(`This reading was changed since you keyed it (version ${current.version}, yours ${edit.version}): both values are shown.`, 'stale-version', details as unknown as Record<string, unknown>);
+    }
+    await applyEdit(tx, readingId, current, { value, method, liftedEnd, rangeIndex, note: edit.note });
+    const saved = (await repo.findReading(tx, surveyId, readingId))!;
+    return { reading: saved, evaluation: evaluationOf(grid, saved, current.testPointKey in (survey.jointChecks as Record<string, unknown>)), replayed: false };
+  });
+}
+
+export async function applyEdit(
+  tx: Tx,
+  readingId: number,
+  current: ReadingRecord,
+  c: { value: { text: string; state: ReadingState; ohms: number | null } | null; method: Method; liftedEnd: 0 | 1 | null; rangeIndex: number | null; note?: string },
+): Promise<void> {
+  await tx
+    .update(readings)
+    .set({
+      ...(c.value ? { text: c.value.text, state: c.value.state, ohms: c.value.ohms } : {}),
+      method: c.method,
+      liftedEnd: c.liftedEnd,
+      rangeIndex: c.rangeIndex,
+      ...(c.note !== undefined ? { note: c.note } : {}),
+      version: current.version + 1,
+      updatedAt: sql`now()`,
+    })
+    .where(eq(readings.id, readingId));
+}
+
+export interface AmendmentChange {
+  testPointKey?: string;
+  followsReadingId?: number | null;
+  text?: string;
+  state?: Exclude<ReadingState, 'value'>;
+  method?: Method;
+  liftedEnd?: 0 | 1 | null;
+  rangeIndex?: number | null;
+  note?: string;
+}
+
+const snapshot = (r: ReadingRecord) => ({ testPointKey: r.testPointKey, text: r.text, state: r.state, ohms: r.ohms, method: r.method, liftedEnd: r.liftedEnd, rangeIndex: r.rangeIndex, note: r.note });
+
+/**
+ * POST /api/surveys/:id/amendments — a change to a complete (or accepted) survey, appended with who,
+ * when and why, and applied: an edit of a reading (`readingId`) or a new reading.
+ */
+export async function amend(ctx: Ctx, user: Actor, surveyId: number, body: { readingId?: number; reason: string; change: AmendmentChange }) {
+  return ctx.db.transaction(async (tx) => {
+    const { survey, access } = await repo.visibleSurvey(tx, user, surveyId, true);
+    const grid = await gridOf(tx, survey, access.set);
+    const meter = meterOf(survey);
+    const c = body.change;
+    let before: unknown = null;
+    let reading: ReadingRecord;
+    const editable = survey.state === 'complete' || survey.state === 'accepted';
+    if (body.readingId !== undefined) {
+      if (c.testPointKey !== undefined || c.followsReadingId !== undefined) throw badRequest('"change.testPointKey": an amendment of a reading changes its value, method, range or note, not its test point.', 'change.testPointKey', 'validation');
+      const current = await repo.findReading(tx, surveyId, body.readingId, true);
+      if (!current) throw notFound('No such reading in this survey.');
+      const method = c.method ?? current.method;
+      const rangeIndex = c.rangeIndex !== undefined ? c.rangeIndex : current.rangeIndex;
+      checkRange(meter, rangeIndex);
+      const value = c.text !== undefined || c.state !== undefined ? textOrState(c, meter, rangeIndex) : null;
+      const liftedEnd = c.liftedEnd !== undefined ? c.liftedEnd : method === 'lead-lifted' ? current.liftedEnd : null;
+      checkLiftedEnd(grid.row(current.testPointKey)!.kind, method, liftedEnd);
+      if (!editable) throw conflict('This survey is still a draft: change the reading itself; amendments are for complete surveys.', 'survey-is-draft');
+      before = snapshot(current);
+      await applyEdit(tx, current.id, current, { value, method, liftedEnd, rangeIndex, note: c.note });
+      reading = (await repo.findReading(tx, surveyId, current.id))!;
+    } else {
+      if (c.testPointKey === undefined) throw badRequest('"change.testPointKey": a new reading names its test point (or give "readingId" to amend a reading).', 'change.testPointKey', 'validation');
+      checkAgainstRow(grid.row(c.testPointKey), { testPointKey: c.testPointKey, method: c.method, liftedEnd: c.liftedEnd });
+      checkRange(meter, c.rangeIndex);
+      const value = textOrState(c, meter, c.rangeIndex);
+      if (c.followsReadingId != null) {
+        const f = await repo.findReading(tx, surveyId, c.followsReadingId);
+        if (!f || f.testPointKey !== c.testPointKey) throw badRequest(`"change.followsReadingId": reading ${c.followsReadingId} is not a reading of ${c.testPointKey} in this survey.`, 'change.followsReadingId', 'validation');
+      }
+      if (!editable) throw conflict('This survey is still a draft: add the reading itself; amendments are for complete surveys.', 'survey-is-draft');
+      const [row] = await tx
+        .insert(readings)
+        .values({
+          surveyId,
+          testPointKey: c.testPointKey,
+          clientKey: `amend-${randomBytes(12).toString('hex')}`,
+          followsReadingId: c.followsReadingId ?? null,
+          text: value.text,
+          state: value.state,
+          ohms: value.ohms,
+          method: c.method ?? 'in-circuit',
+          liftedEnd: c.liftedEnd ?? null,
+          rangeIndex: c.rangeIndex ?? null,
+          note: c.note ?? '',
+          enteredBy: user.id,
+        })
+        .returning({ id: readings.id });
+      reading = (await repo.findReading(tx, surveyId, row.id))!;
+    }
+    const [a] = await tx.execute<{ id: number }>(sql`
+      INSERT INTO survey_amendments (survey_id, reading_id, reason, change, amended_by)
+      VALUES (${surveyId}, ${reading.id}, ${body.reason.trim()}, ${JSON.stringify({ before, after: snapshot(reading) })}::jsonb, ${user.id})
+      RETURNING id`).then((r) => r.rows);
+    const amendment = (await repo.amendmentsOf(tx, surveyId)).find((x) => x.id === a.id)!;
+    return { amendment, reading, evaluation: evaluationOf(grid, reading, reading.testPointKey in (survey.jointChecks as Record<string, unknown>)) };
+  });
+}

@@ -1,0 +1,286 @@
+/**
+ * The survey as the grid sees it (GET /api/surveys/:id, SurveyView in api/domain/set-format.ts):
+ * the template version's document, the tube types, the set's deviations, the readings and the
+ * verdict of each, computed by api/domain/survey-grid.ts — the same module the browser runs.
+ *
+ * One SurveyGrid per (survey id, survey version, set version) is kept in a small LRU cache: a
+ * survey's rule, meter and conditions change only with its version, the deviations only with the
+ * set's version, and the template version of a survey never changes. (A tube-type library edit is
+ * not seen by a cached grid until the survey or set changes or the process restarts.)
+ */
+import { and, eq, inArray } from 'drizzle-orm';
+import { templateVersions } from '../../schema/index';
+import type { MeterProfile } from '../domain/meter';
+import type { ReadingEvaluation, ReadingRecord, SurveyConditions, SurveySummary, SurveyView, VerdictCounts } from '../domain/set-format';
+import { SurveyGrid, type GridReading } from '../domain/survey-grid';
+import type { TemplateDocument, TubeTypeRecord } from '../domain/template-format';
+import type { AcceptanceRule } from '../domain/verdict';
+import type { Db, Tx } from '../db';
+import { notFound } from '../http/errors';
+import type { Actor, SetAccess, SetRow } from '../sets/sets.repository';
+import { findSet } from '../sets/sets.repository';
+import { tubeTypesOf } from '../templates/template-rules';
+import { tubeTypeRecords } from '../templates/templates.repository';
+import * as repo from './surveys.repository';
+
+type Deps = { db: Db };
+
+// ---------------------------------------------------------------------------------------------
+// Template versions (immutable once published: cached by id)
+
+export interface VersionDoc {
+  id: number;
+  templateId: number;
+  number: number;
+  document: TemplateDocument;
+  tubeTypes: TubeTypeRecord[];
+}
+
+const VERSION_CACHE_MAX = 64;
+const versionCache = new Map<number, Promise<VersionDoc>>();
+
+/** A template version's document and tube types (cached: published versions never change). */
+export function versionDoc(tx: Tx, templateVersionId: number): Promise<VersionDoc> {
+  let p = versionCache.get(templateVersionId);
+  if (p === undefined) {
+    p = (async () => {
+      const [v] = await tx
+        .select({ id: templateVersions.id, templateId: templateVersions.templateId, number: templateVersions.number, content: templateVersions.content })
+        .from(templateVersions)
+        .where(eq(templateVersions.id, templateVersionId));
+      if (!v) throw notFound('No such template version.');
+      const document = v.content as TemplateDocument;
+      const tubes = await tubeTypeRecords(tx, tubeTypesOf(document));
+      return { id: v.id, templateId: v.templateId, number: v.number ?? 0, document, tubeTypes: [...tubes.values()] };
+    })();
+    p.catch(() => versionCache.delete(templateVersionId));
+    versionCache.set(templateVersionId, p);
+    if (versionCache.size > VERSION_CACHE_MAX) versionCache.delete(versionCache.keys().next().value!);
+  }
+  return p;
+}
+
+/** The published version `number` of a template (id and document), or undefined. */
+export async function publishedVersion(tx: Tx, templateId: number, number: number): Promise<{ id: number; state: string } | undefined> {
+  const [v] = await tx
+    .select({ id: templateVersions.id, state: templateVersions.state })
+    .from(templateVersions)
+    .where(and(eq(templateVersions.templateId, templateId), eq(templateVersions.number, number), inArray(templateVersions.state, ['published', 'retired'])));
+  return v;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Grids
+
+const GRID_CACHE_MAX = 256;
+const gridCache = new Map<string, SurveyGrid>();
+/** Test point keys and kinds per survey (a survey's template version never changes). */
+const rowCache = new Map<number, { meter: MeterProfile | null; rows: Map<string, { kind: string; componentKey: string | null }> }>();
+
+const gridKey = (surveyId: number, surveyVersion: number, setVersion: number) => `${surveyId}:${surveyVersion}:${setVersion}`;
+
+/** The cached grid of a survey at these versions, if any. */
+export function cachedGrid(surveyId: number, surveyVersion: number, setVersion: number): SurveyGrid | undefined {
+  const k = gridKey(surveyId, surveyVersion, setVersion);
+  const g = gridCache.get(k);
+  if (g !== undefined) {
+    gridCache.delete(k);
+    gridCache.set(k, g);
+  }
+  return g;
+}
+
+export function meterOf(survey: repo.SurveyRow): MeterProfile | null {
+  return (survey.meter as repo.MeterSnapshot | null)?.profile ?? null;
+}
+
+/** The grid of a survey row and its set row (cached per survey version and set version). */
+export async function gridOf(tx: Tx, survey: repo.SurveyRow, set: Pick<SetRow, 'version' | 'deviations'>): Promise<SurveyGrid> {
+  const hit = cachedGrid(survey.id, survey.version, set.version);
+  if (hit) return hit;
+  const v = await versionDoc(tx, survey.templateVersionId);
+  const grid = new SurveyGrid({
+    document: v.document,
+    tubeTypes: v.tubeTypes,
+    deviations: set.deviations,
+    meter: meterOf(survey),
+    rule: survey.rule as AcceptanceRule,
+    conditions: survey.conditions as SurveyConditions,
+  });
+  const k = gridKey(survey.id, survey.version, set.version);
+  gridCache.set(k, grid);
+  if (gridCache.size > GRID_CACHE_MAX) gridCache.delete(gridCache.keys().next().value!);
+  rowCache.set(survey.id, { meter: meterOf(survey), rows: new Map(grid.rows.map((r) => [r.testPointKey, { kind: r.kind, componentKey: r.component?.key ?? null }])) });
+  if (rowCache.size > GRID_CACHE_MAX * 4) rowCache.delete(rowCache.keys().next().value!);
+  return grid;
+}
+
+/** Test point keys (and kinds) of a survey when known in this process; undefined otherwise. */
+export function cachedRows(surveyId: number) {
+  return rowCache.get(surveyId);
+}
+
+/**
+ * The grid of a survey, without an access check (callers check access first, e.g. with
+ * visibleSurvey or visibleSet). Throws 404 when the survey does not exist.
+ */
+export async function surveyGridFor(ctx: Deps, surveyId: number): Promise<SurveyGrid> {
+  const survey = await repo.findSurvey(ctx.db, surveyId);
+  if (!survey) throw notFound('No such survey.');
+  const found = await findSet(ctx.db, survey.setId, 0);
+  if (!found) throw notFound('No such survey.');
+  return gridOf(ctx.db, survey, found.set);
+}
+
+export const gridReadingOf = (r: ReadingRecord): GridReading => ({
+  id: r.id,
+  testPointKey: r.testPointKey,
+  followsReadingId: r.followsReadingId,
+  text: r.text,
+  state: r.state,
+  ohms: r.ohms,
+  method: r.method,
+  liftedEnd: r.liftedEnd,
+  rangeIndex: r.rangeIndex,
+});
+
+/** The current reading per test point: the newest one no follow-up supersedes (as SurveyGrid.current). */
+export function currentReadings<R extends { id: number; testPointKey: string; followsReadingId: number | null }>(readings: readonly R[]): Map<string, R> {
+  const superseded = new Set<number>();
+  for (const r of readings) if (r.followsReadingId !== null) superseded.add(r.followsReadingId);
+  const out = new Map<string, R>();
+  for (const r of readings) {
+    if (superseded.has(r.id)) continue;
+    const had = out.get(r.testPointKey);
+    if (had === undefined || r.id > had.id) out.set(r.testPointKey, r);
+  }
+  return out;
+}
+
+/** Every reading's evaluation (by reading id) and the survey's counts over the current readings. */
+export function evaluateSurvey(grid: SurveyGrid, readings: readonly ReadingRecord[], jointChecks: Readonly<Record<string, unknown>>): { evaluations: Record<number, ReadingEvaluation>; counts: VerdictCounts; stages: Record<string, VerdictCounts> } {
+  const evaluations: Record<number, ReadingEvaluation> = {};
+  for (const r of readings) {
+    if (grid.row(r.testPointKey) === undefined) continue;
+    evaluations[r.id] = grid.evaluate(gridReadingOf(r), { jointChecked: r.testPointKey in jointChecks });
+  }
+  const byKey = new Map<string, ReadingEvaluation>();
+  for (const [key, r] of currentReadings(readings)) if (evaluations[r.id]) byKey.set(key, evaluations[r.id]);
+  const { total, stages } = grid.summary(byKey);
+  return { evaluations, counts: total, stages };
+}
+
+export function summaryOf(survey: repo.SurveyRow, templateId: number, counts: VerdictCounts): SurveySummary {
+  return {
+    id: survey.id,
+    setId: survey.setId,
+    purpose: survey.purpose,
+    state: survey.state,
+    templateId,
+    versionNumber: survey.versionNumber,
+    meterName: (survey.meter as repo.MeterSnapshot | null)?.name ?? null,
+    startedBy: survey.startedBy === null ? null : { id: survey.startedBy, name: survey.startedByName ?? '' },
+    startedAt: survey.createdAt.toISOString(),
+    completedAt: survey.completedAt?.toISOString() ?? null,
+    counts,
+  };
+}
+
+/** The surveys of a set, oldest first, each with its verdict counts. */
+export async function surveySummaries(tx: Tx, set: Pick<SetRow, 'id' | 'version' | 'deviations' | 'templateId'>): Promise<SurveySummary[]> {
+  const list = await repo.surveysOfSet(tx, set.id);
+  const readings = await repo.readingsOfSurveys(
+    tx,
+    list.map((s) => s.id),
+  );
+  const out: SurveySummary[] = [];
+  for (const s of list) {
+    const grid = await gridOf(tx, s, set);
+    out.push(summaryOf(s, set.templateId, evaluateSurvey(grid, readings.get(s.id) ?? [], s.jointChecks as Record<string, unknown>).counts));
+  }
+  return out;
+}
+
+/** The view of a survey whose access is already decided. */
+export async function surveyViewOf(tx: Tx, survey: repo.SurveyRow, access: SetAccess, parallel = false): Promise<SurveyView> {
+  const set = access.set;
+  // Outside a transaction the queries go out at once (pool connections); inside one, in turn.
+  const steps = [
+    () => versionDoc(tx, survey.templateVersionId),
+    () => repo.readingsOf(tx, survey.id),
+    () => repo.amendmentsOf(tx, survey.id),
+    () => gridOf(tx, survey, set),
+    () => repo.surveysOfSet(tx, set.id),
+  ] as const;
+  const [v, readings, amendments, grid, siblings] = (parallel ? await Promise.all(steps.map((f) => f())) : await inTurn(steps)) as [
+    VersionDoc,
+    ReadingRecord[],
+    Awaited<ReturnType<typeof repo.amendmentsOf>>,
+    SurveyGrid,
+    repo.SurveyRow[],
+  ];
+  const jointChecks = survey.jointChecks as SurveyView['survey']['jointChecks'];
+  const { evaluations, counts } = evaluateSurvey(grid, readings, jointChecks);
+
+  // The order carried over: the earlier survey's bench order, then any test point new in this version.
+  let order: string[] = [];
+  if (survey.carriedFromSurveyId !== null) {
+    const from = siblings.find((s) => s.id === survey.carriedFromSurveyId);
+    if (from) {
+      const old = await versionDoc(tx, from.templateVersionId);
+      const here = new Set(v.document.testPoints.map((t) => t.key));
+      order = old.document.testPoints.map((t) => t.key).filter((k) => here.has(k));
+      const seen = new Set(order);
+      for (const t of v.document.testPoints) if (!seen.has(t.key)) order.push(t.key);
+    }
+  }
+
+  // The newest earlier survey of the set: its current values, for the grid to show once a new value is keyed.
+  const earlier = siblings.filter((s) => s.createdAt < survey.createdAt || (s.createdAt.getTime() === survey.createdAt.getTime() && s.id < survey.id));
+  let previous: SurveyView['previous'] = null;
+  if (earlier.length) {
+    const prev = earlier[earlier.length - 1];
+    const prevReadings = await repo.readingsOf(tx, prev.id);
+    previous = {
+      surveyId: prev.id,
+      startedAt: prev.createdAt.toISOString(),
+      readings: [...currentReadings(prevReadings).values()].sort((a, b) => a.id - b.id).map((r) => ({ testPointKey: r.testPointKey, text: r.text, state: r.state, ohms: r.ohms })),
+    };
+  }
+
+  const meter = survey.meter as repo.MeterSnapshot | null;
+  return {
+    survey: {
+      ...summaryOf(survey, set.templateId, counts),
+      meter: meter ? { name: meter.name, profile: meter.profile, checkDate: meter.checkDate } : null,
+      rule: survey.rule as AcceptanceRule,
+      conditions: survey.conditions as SurveyConditions,
+      meterCheck: (survey.meterCheck as SurveyView['survey']['meterCheck']) ?? null,
+      carriedFromSurveyId: survey.carriedFromSurveyId,
+      jointChecks,
+      version: survey.version,
+      editable: survey.state === 'draft',
+    },
+    set: { id: set.id, label: set.label, serial: set.serial, deviations: set.deviations, hotChassis: set.template.hotChassis, power: set.template.power },
+    template: { id: set.templateId, versionNumber: survey.versionNumber, document: v.document },
+    tubeTypes: v.tubeTypes,
+    readings,
+    evaluations,
+    amendments,
+    order,
+    previous,
+  };
+}
+
+/** Runs the steps one after the other (one connection: a transaction). */
+export async function inTurn(steps: readonly (() => Promise<unknown>)[]): Promise<unknown[]> {
+  const out: unknown[] = [];
+  for (const f of steps) out.push(await f());
+  return out;
+}
+
+/** GET /api/surveys/:id — the survey if `user` may see its set (404 otherwise). */
+export async function loadSurveyView(ctx: Deps, user: Actor, surveyId: number): Promise<SurveyView> {
+  const { survey, access } = await repo.visibleSurvey(ctx.db, user, surveyId);
+  return surveyViewOf(ctx.db, survey, access, true);
+}

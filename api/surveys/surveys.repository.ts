@@ -1,0 +1,210 @@
+/** Queries of surveys, readings, amendments and lifted leads: each takes `db` or a transaction `tx`. */
+import { and, asc, desc, eq, sql } from 'drizzle-orm';
+import { liftedLeads, readings, surveyAmendments, surveys, users } from '../../schema/index';
+import { alias } from 'drizzle-orm/pg-core';
+import type { MeterProfile } from '../domain/meter';
+import type { AmendmentRecord, LiftedLeadRecord, MeterCheck, ReadingRecord, SurveyConditions } from '../domain/set-format';
+import type { AcceptanceRule } from '../domain/verdict';
+import type { Method, ReadingState } from '../domain/words';
+import type { Tx } from '../db';
+import { notFound } from '../http/errors';
+import { visibleSet, type Actor, type SetAccess } from '../sets/sets.repository';
+
+/** The meter as a survey keeps it (a snapshot taken at the start or at a change of meter). */
+export interface MeterSnapshot {
+  name: string;
+  profile: MeterProfile;
+  checkDate: string | null;
+  checkResistorOhms?: number | null;
+  checkResistorTolerancePct?: number | null;
+}
+
+export type SurveyRow = typeof surveys.$inferSelect & { startedByName: string | null };
+
+export async function findSurvey(tx: Tx, surveyId: number, lock = false): Promise<SurveyRow | undefined> {
+  const q = tx
+    .select({ s: surveys, startedByName: users.name })
+    .from(surveys)
+    .leftJoin(users, eq(users.id, surveys.startedBy))
+    .where(eq(surveys.id, surveyId));
+  const [row] = lock ? await q.for('update', { of: surveys }) : await q;
+  return row ? { ...row.s, startedByName: row.startedByName } : undefined;
+}
+
+/** The survey and its set if `user` may see the set; a 404 otherwise (same answer as no survey). */
+export async function visibleSurvey(tx: Tx, user: Actor, surveyId: number, lock = false): Promise<{ survey: SurveyRow; access: SetAccess }> {
+  const survey = await findSurvey(tx, surveyId, lock);
+  if (!survey) throw notFound('No such survey.');
+  try {
+    return { survey, access: await visibleSet(tx, user, survey.setId) };
+  } catch {
+    throw notFound('No such survey.');
+  }
+}
+
+export async function surveysOfSet(tx: Tx, setId: number): Promise<SurveyRow[]> {
+  const rows = await tx
+    .select({ s: surveys, startedByName: users.name })
+    .from(surveys)
+    .leftJoin(users, eq(users.id, surveys.startedBy))
+    .where(eq(surveys.setId, setId))
+    .orderBy(asc(surveys.createdAt), asc(surveys.id));
+  return rows.map((r) => ({ ...r.s, startedByName: r.startedByName }));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Readings
+
+const enteredByUser = alias(users, 'entered_by_user');
+const readingColumns = {
+  id: readings.id,
+  surveyId: readings.surveyId,
+  testPointKey: readings.testPointKey,
+  clientKey: readings.clientKey,
+  followsReadingId: readings.followsReadingId,
+  text: readings.text,
+  state: readings.state,
+  ohms: readings.ohms,
+  method: readings.method,
+  liftedEnd: readings.liftedEnd,
+  rangeIndex: readings.rangeIndex,
+  note: readings.note,
+  prediction: readings.prediction,
+  enteredBy: readings.enteredBy,
+  enteredByName: enteredByUser.name,
+  takenAt: readings.takenAt,
+  version: readings.version,
+  updatedAt: readings.updatedAt,
+};
+export type ReadingRow = {
+  id: number;
+  surveyId: number;
+  testPointKey: string;
+  clientKey: string;
+  followsReadingId: number | null;
+  text: string;
+  state: ReadingState;
+  ohms: number | null;
+  method: Method;
+  liftedEnd: number | null;
+  rangeIndex: number | null;
+  note: string;
+  prediction: string | null;
+  enteredBy: number | null;
+  enteredByName: string | null;
+  takenAt: Date;
+  version: number;
+  updatedAt: Date;
+};
+
+export function readingRecordOf(r: ReadingRow): ReadingRecord {
+  return {
+    id: Number(r.id),
+    testPointKey: r.testPointKey,
+    clientKey: r.clientKey,
+    followsReadingId: r.followsReadingId === null ? null : Number(r.followsReadingId),
+    text: r.text,
+    state: r.state,
+    ohms: r.ohms,
+    method: r.method,
+    liftedEnd: r.liftedEnd === null ? null : (r.liftedEnd as 0 | 1),
+    rangeIndex: r.rangeIndex,
+    note: r.note,
+    prediction: r.prediction,
+    enteredBy: r.enteredBy === null ? null : { id: r.enteredBy, name: r.enteredByName ?? '' },
+    takenAt: new Date(r.takenAt).toISOString(),
+    version: r.version,
+    updatedAt: new Date(r.updatedAt).toISOString(),
+  };
+}
+
+/** A survey's readings in the order they were stored. */
+export async function readingsOf(tx: Tx, surveyId: number): Promise<ReadingRecord[]> {
+  const rows = await tx.select(readingColumns).from(readings).leftJoin(enteredByUser, eq(enteredByUser.id, readings.enteredBy)).where(eq(readings.surveyId, surveyId)).orderBy(asc(readings.id));
+  return rows.map((r) => readingRecordOf(r as ReadingRow));
+}
+
+/** The readings of several surveys (one query), by survey id. */
+export async function readingsOfSurveys(tx: Tx, surveyIds: number[]): Promise<Map<number, ReadingRecord[]>> {
+  const out = new Map<number, ReadingRecord[]>(surveyIds.map((id) => [id, []]));
+  if (!surveyIds.length) return out;
+  const rows = await tx
+    .select(readingColumns)
+    .from(readings)
+    .leftJoin(enteredByUser, eq(enteredByUser.id, readings.enteredBy))
+    .where(sql`${readings.surveyId} IN (${sql.join(surveyIds.map((i) => sql`${i}`), sql`, `)})`)
+    .orderBy(asc(readings.id));
+  for (const r of rows) out.get(r.surveyId)!.push(readingRecordOf(r as ReadingRow));
+  return out;
+}
+
+export async function findReading(tx: Tx, surveyId: number, readingId: number, lock = false): Promise<ReadingRecord | undefined> {
+  const q = tx
+    .select(readingColumns)
+    .from(readings)
+    .leftJoin(enteredByUser, eq(enteredByUser.id, readings.enteredBy))
+    .where(and(eq(readings.surveyId, surveyId), eq(readings.id, readingId)));
+  const [row] = lock ? await q.for('update', { of: readings }) : await q;
+  return row ? readingRecordOf(row as ReadingRow) : undefined;
+}
+
+export async function findReadingByClientKey(tx: Tx, surveyId: number, clientKey: string): Promise<ReadingRecord | undefined> {
+  const [row] = await tx
+    .select(readingColumns)
+    .from(readings)
+    .leftJoin(enteredByUser, eq(enteredByUser.id, readings.enteredBy))
+    .where(and(eq(readings.surveyId, surveyId), eq(readings.clientKey, clientKey)));
+  return row ? readingRecordOf(row as ReadingRow) : undefined;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Amendments and lifted leads
+
+export async function amendmentsOf(tx: Tx, surveyId: number): Promise<AmendmentRecord[]> {
+  const rows = await tx
+    .select({ a: surveyAmendments, name: users.name })
+    .from(surveyAmendments)
+    .leftJoin(users, eq(users.id, surveyAmendments.amendedBy))
+    .where(eq(surveyAmendments.surveyId, surveyId))
+    .orderBy(asc(surveyAmendments.id));
+  return rows.map(({ a, name }) => ({
+    id: a.id,
+    readingId: a.readingId === null ? null : Number(a.readingId),
+    reason: a.reason,
+    change: a.change as { before: unknown; after: unknown },
+    amendedBy: a.amendedBy === null ? null : { id: a.amendedBy, name: name ?? '' },
+    createdAt: a.createdAt.toISOString(),
+  }));
+}
+
+const lifter = alias(users, 'lifter');
+const resolderer = alias(users, 'resolderer');
+
+export async function liftedLeadsOf(tx: Tx, setId: number, leadId?: number, lock = false): Promise<LiftedLeadRecord[]> {
+  const q = tx
+    .select({ l: liftedLeads, lifterName: lifter.name, resoldererName: resolderer.name })
+    .from(liftedLeads)
+    .leftJoin(lifter, eq(lifter.id, liftedLeads.liftedBy))
+    .leftJoin(resolderer, eq(resolderer.id, liftedLeads.resolderedBy))
+    .where(and(eq(liftedLeads.setId, setId), leadId === undefined ? undefined : eq(liftedLeads.id, leadId)))
+    .orderBy(desc(liftedLeads.liftedAt), desc(liftedLeads.id));
+  const rows = lock ? await q.for('update', { of: liftedLeads }) : await q;
+  return rows.map(({ l, lifterName, resoldererName }) => ({
+    id: l.id,
+    setId: l.setId,
+    surveyId: l.surveyId,
+    componentKey: l.componentKey,
+    componentRef: l.componentRef,
+    end: l.end as 0 | 1,
+    node: l.node,
+    promptedByReadingId: l.promptedByReadingId === null ? null : Number(l.promptedByReadingId),
+    liftedBy: l.liftedBy === null ? null : { id: l.liftedBy, name: lifterName ?? '' },
+    liftedAt: l.liftedAt.toISOString(),
+    resolderedBy: l.resolderedBy === null ? null : { id: l.resolderedBy, name: resoldererName ?? '' },
+    resolderedAt: l.resolderedAt?.toISOString() ?? null,
+    recheckReadingId: l.recheckReadingId === null ? null : Number(l.recheckReadingId),
+    note: l.note,
+  }));
+}
+
+export type { AcceptanceRule, MeterCheck, SurveyConditions };
