@@ -52,7 +52,8 @@ export interface RowState {
   readonly conflict: ReadingConflict | null;
 }
 
-export type LoadState = 'loading' | 'ok' | 'offline' | 'failed';
+/** `cached`: this browser's copy shows while the API is asked; `offline`: the API did not answer, the copy stands. */
+export type LoadState = 'loading' | 'cached' | 'ok' | 'offline' | 'failed';
 
 /** Large ids for readings still waiting, so the newest-reading rule ranks them after stored ones. */
 const PENDING_ID_BASE = 1e12;
@@ -274,30 +275,42 @@ export class SurveySession {
       refused: (item, conflict) => this.applyRefused(item, conflict),
       unreachable: (away) => this.away.set(away),
     });
-    const fromApi = firstValueFrom(this.api.survey(surveyId)).then(
-      (view) => ({ ok: true as const, view }),
-      (err: unknown) => ({ ok: false as const, err }),
-    );
-    const [cached, items] = await Promise.all([this.db.view(surveyId), this.db.outbox(surveyId)]);
-    if (this.surveyId() !== surveyId) return;
-    this.outbox.set(items);
-    const answer = await Promise.race([fromApi, Promise.resolve(null)]);
-    if (answer === null && cached !== undefined) this.applyView(cached.view, 'offline');
-    const settled = await fromApi;
+    const local = Promise.all([this.db.view(surveyId), this.db.outbox(surveyId)]).then(([cached, items]) => {
+      if (this.surveyId() !== surveyId) return undefined;
+      // Writes keyed before the store answered stay; the stored ones come first (older).
+      const known = new Set(items.map((i) => i.seq));
+      this.outbox.set([...items, ...this.outbox().filter((i) => !known.has(i.seq))].sort((a, b) => a.seq - b.seq));
+      // This browser's copy shows until the API answers.
+      if (cached !== undefined && this.loadState() === 'loading') this.applyView(cached.view, 'cached');
+      return cached;
+    });
+    let settled: { ok: true; view: SurveyView } | { ok: false; err: unknown };
+    try {
+      settled = { ok: true, view: await firstValueFrom(this.api.survey(surveyId)) };
+    } catch (err: unknown) {
+      settled = { ok: false, err };
+    }
     if (this.surveyId() !== surveyId) return;
     if (settled.ok) {
       this.applyView(settled.view, 'ok');
       this.away.set(false);
       void this.db.putView(settled.view);
-    } else if (cached !== undefined && isTransient(settled.err)) {
-      this.applyView(cached.view, 'offline');
-      this.away.set(true);
     } else {
-      const e = apiErrorOf(settled.err);
-      this.loadError.set(e.status === 404 ? 'No such survey, or it is not shared with you.' : isTransient(settled.err) ? 'The server cannot be reached, and this survey is not kept in this browser yet.' : e.message);
-      this.loadState.set('failed');
-      return;
+      const cached = await local;
+      if (this.surveyId() !== surveyId) return;
+      if (cached !== undefined && isTransient(settled.err)) {
+        this.applyView(cached.view, 'offline');
+        this.away.set(true);
+      } else {
+        const e = apiErrorOf(settled.err);
+        this.loadError.set(
+          e.status === 404 ? 'No such survey, or it is not shared with you.' : isTransient(settled.err) ? 'The server cannot be reached, and this survey is not kept in this browser yet.' : e.message,
+        );
+        this.loadState.set('failed');
+        return;
+      }
     }
+    await local;
     void this.sender.flush();
   }
 

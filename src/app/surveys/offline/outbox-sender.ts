@@ -70,7 +70,7 @@ export class OutboxSender {
     }
     this.running = this.round().finally(() => {
       this.running = null;
-      if (this.again && !this.disposed) {
+      if (this.again && !this.disposed && this.timer === null) {
         this.again = false;
         void this.flush();
       }
@@ -98,6 +98,8 @@ export class OutboxSender {
         this.hooks.sent(next, result);
       } catch (err: unknown) {
         if (isTransient(err)) {
+          // Writes queued meanwhile change nothing: the oldest one still waits for the API.
+          this.again = false;
           this.hooks.unreachable(true);
           this.retryLater();
           return;
