@@ -12,6 +12,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import { JOB_STATUSES, type JobStatus } from '@domain/set-format';
+import type { SurveyPurpose, SurveyState } from '@domain/words';
 import { catchError, debounceTime, map, of, switchMap, tap } from 'rxjs';
 import { Auth } from '../../core/auth/auth';
 import { apiErrorOf } from '../../core/errors/api-error';
@@ -45,8 +46,6 @@ export class SetList {
 
   protected readonly statuses = JOB_STATUSES;
   protected readonly statusLabels = JOB_STATUS_LABELS;
-  protected readonly purposeLabels = PURPOSE_LABELS;
-  protected readonly stateLabels = SURVEY_STATE_LABELS;
   protected readonly columns = ['label', 'chassis', 'serial', 'status', 'lastSurvey', 'leads', 'updated'];
   protected readonly canCreate = computed(() => this.auth.hasRole('technician', 'instructor', 'admin'));
 
@@ -86,6 +85,16 @@ export class SetList {
         this.loadFailed.set(!answer.ok);
         if (answer.ok) this.page.set(answer.result);
       });
+  }
+
+  protected statusLabel(status: JobStatus): string {
+    return JOB_STATUS_LABELS[status] ?? status;
+  }
+  protected purposeLabel(purpose: SurveyPurpose): string {
+    return PURPOSE_LABELS[purpose] ?? purpose;
+  }
+  protected stateLabel(state: SurveyState): string {
+    return SURVEY_STATE_LABELS[state] ?? state;
   }
 
   protected changePage(event: PageEvent): void {

@@ -66,7 +66,6 @@ export class SetPage {
 
   protected readonly statusLabels = JOB_STATUS_LABELS;
   protected readonly levelLabels = RESTORATION_LEVEL_LABELS;
-  protected readonly powerLabels = POWER_LABELS;
   protected readonly caution = HOT_CHASSIS_CAUTION;
 
   private readonly reloads = signal(0);
@@ -110,6 +109,10 @@ export class SetPage {
         takeUntilDestroyed(),
       )
       .subscribe((doc) => this.doc.set(doc));
+  }
+
+  protected powerLabel(power: string): string {
+    return (POWER_LABELS as Readonly<Record<string, string>>)[power] ?? power;
   }
 
   protected reload(): void {
