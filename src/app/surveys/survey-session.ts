@@ -120,7 +120,8 @@ export class SurveySession {
 
   readonly editable = computed(() => {
     const v = this.view();
-    return v !== null && v.survey.editable && v.survey.state === 'draft';
+    // The API says whether the caller may add readings (a draft, or a returned class survey).
+    return v !== null && v.survey.editable && v.survey.state !== 'complete' && v.survey.state !== 'accepted';
   });
 
   /** Rows in bench order: the carried-over order when there is one, else the template's. */

@@ -371,4 +371,57 @@ describe('SurveyPage', () => {
     expect(markOf('tp-r1')).toBe('confirmed');
     expect(markOf('tp-v1p')).toBe('confirmed');
   });
+
+  it('a high in-circuit reading says to check the path; j marks its joints checked', async () => {
+    await open();
+    type('tp-r2', '330k');
+    const req = await postedReading();
+    req.flush(savedAnswer(surveyView(), record('tp-r2', '330k', { clientKey: (req.request.body as ReadingInput).clientKey })), { status: 201, statusText: 'Created' });
+    await settle();
+    input('tp-r2').focus();
+    await settle();
+    expect(el.querySelector('dm-row-detail .advice')!.textContent).toContain('Path high: check the joints and contacts, then the part');
+    const ev = press(input('tp-r2'), 'j');
+    expect(ev.defaultPrevented).toBeTrue();
+    const joint = await nextRequest(http, (r) => r.method === 'POST' && r.url === '/api/surveys/5/joint-checks');
+    expect(joint.request.body).toEqual({ testPointKey: 'tp-r2', checked: true });
+    joint.flush({});
+    await settle();
+    expect(row('tp-r2').textContent).toContain('joints checked');
+    // Its twin: j again clears the mark.
+    press(input('tp-r2'), 'j');
+    const clear = await nextRequest(http, (r) => r.method === 'POST' && r.url === '/api/surveys/5/joint-checks');
+    expect(clear.request.body).toEqual({ testPointKey: 'tp-r2', checked: false });
+    clear.flush({});
+    await settle();
+    expect(row('tp-r2').textContent).not.toContain('joints checked');
+  });
+
+  it('complete waits for waiting writes, asks once more, then makes the survey read-only', async () => {
+    const view = surveyView();
+    await open(view);
+    type('tp-r2', '260k');
+    fixture.detectChanges();
+    const button = () => el.querySelector<HTMLButtonElement>('[data-test="complete"]');
+    expect(button()!.disabled).toBeTrue();
+    expect(el.querySelector('[data-test="complete-waits"]')).not.toBeNull();
+    const req = await postedReading();
+    const body = req.request.body as ReadingInput;
+    const stored = record('tp-r2', '260k', { clientKey: body.clientKey });
+    req.flush(savedAnswer(view, stored), { status: 201, statusText: 'Created' });
+    await settle();
+    expect(button()!.disabled).toBeFalse();
+    button()!.click();
+    await settle();
+    expect(button()!.textContent).toContain('Confirm');
+    expect(http.match((r) => r.url.endsWith('/complete')).length).toBe(0);
+    button()!.click();
+    (await nextRequest(http, (r) => r.method === 'POST' && r.url === '/api/surveys/5/complete')).flush({});
+    const done = surveyView({ state: 'complete', editable: false, completedAt: '2026-11-30T11:00:00Z' }, { readings: [stored] });
+    (await nextRequest(http, (r) => r.method === 'GET' && r.url === '/api/surveys/5')).flush(done);
+    await settle();
+    expect(el.querySelector('[data-test="survey-state"]')!.textContent).toContain('complete');
+    expect(button()).toBeNull();
+    expect(input('tp-r1').readOnly).toBeTrue();
+  });
 });

@@ -53,7 +53,10 @@ export class SurveyPage {
 
   protected readonly view = this.session.view;
   protected readonly stages = this.session.stages;
-  protected readonly activeStage = computed(() => this.stages()[Math.min(this.stageIndex(), Math.max(0, this.stages().length - 1))] ?? null);
+  protected readonly activeStage = computed(() => {
+    const stages = this.stages();
+    return stages.length === 0 ? null : stages[Math.min(this.stageIndex(), stages.length - 1)];
+  });
   protected readonly states = this.session.rowStates;
   protected readonly focusedState = computed(() => {
     const k = this.focusedKey();
