@@ -42,7 +42,7 @@ describe('Meter profiles', () => {
   it('refuses a profile the domain finds unusable, naming the field; the usable twin is stored', async () => {
     const env = await apiEnv();
     const broken = workedMeter();
-    delete (broken.ranges[2] as Partial<(typeof broken.ranges)[number]>).resolutionOhms;
+    delete (broken.ranges[2] as Partial<Record<string, number>>).resolutionOhms;
     const r = await request(env.app).post('/api/meter-profiles').set(bearer(tech)).send({ name: 'Broken', profile: broken });
     expect(r.status).toBe(400);
     expect(r.body.error.details.field).toBe('profile.ranges[2].resolutionOhms');
