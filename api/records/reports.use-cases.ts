@@ -140,6 +140,8 @@ export async function getHistory(ctx: Deps, user: Actor, setId: number): Promise
       if (!row || row.kind !== 'component-check' || !row.component || row.excluded) continue;
       const nominalOhms = row.expected && 'ohms' in row.expected ? row.expected.ohms : null;
       const ev = grid.evaluate(gridReadingOf(r), { jointChecked: key in jointChecks });
+      // In circuit, where the network gives the part's implied value, the point is that value; its
+      // uncertainty is half its honest interval (the meter's U and the other parts' tolerances, DESIGN.md §3.5).
       const implied = r.method === 'in-circuit' && ev.implied?.ohms != null ? ev.implied : null;
       const half = implied && implied.lowOhms !== null && implied.highOhms !== null ? (implied.highOhms - implied.lowOhms) / 2 : null;
       const p: HistoryPointInput = {
