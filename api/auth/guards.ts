@@ -3,6 +3,7 @@
  * so a deactivated user, or a token older than a password change, is refused at the next request.
  */
 import type { RequestHandler } from 'express';
+import jwt from 'jsonwebtoken';
 import { Passport } from 'passport';
 import { ExtractJwt, Strategy as JwtStrategy } from 'passport-jwt';
 import type { Role } from '../../schema/index';
@@ -13,14 +14,30 @@ import { JWT_VERIFY_OPTIONS, type AccessClaims } from './tokens';
 
 export type SignedInUser = Omit<UserRow, 'passwordHash'>;
 
+/** A verified access token's claims, before the account is checked (routes with `auth: 'folded'`). */
+export interface VerifiedClaims {
+  userId: number;
+  tokenVersion: number;
+}
+
 declare module 'express-serve-static-core' {
   interface Request {
     signedIn?: SignedInUser;
+    claims?: VerifiedClaims;
   }
 }
 
+const UNAUTHORIZED_MESSAGE = 'Sign in to continue: the access token is missing, expired or no longer valid.';
+
 export interface AuthGuards {
   requireSignIn: RequestHandler;
+  /**
+   * Verifies the access token's signature, expiry, issuer and audience only, and leaves the
+   * account check (active, token version) to the route's own query — one round trip for a hot
+   * route (the reading save). The handler MUST refuse with 401 when its query finds no such
+   * active account at that token version.
+   */
+  requireClaims: RequestHandler;
   requireRoles(roles: readonly Role[]): RequestHandler;
 }
 
@@ -44,7 +61,7 @@ export function createAuthGuards(db: Db, secret: string): AuthGuards {
     passport.authenticate('jwt', { session: false }, (err: unknown, user: SignedInUser | false, info: { message?: string } | undefined) => {
       if (err) return next(err);
       if (!user) {
-        const why = info?.message === 'deactivated' ? 'This account has been deactivated.' : 'Sign in to continue: the access token is missing, expired or no longer valid.';
+        const why = info?.message === 'deactivated' ? 'This account has been deactivated.' : UNAUTHORIZED_MESSAGE;
         return next(unauthorized(why, info?.message === 'deactivated' ? 'account-deactivated' : 'unauthorized'));
       }
       req.signedIn = user;
@@ -59,5 +76,19 @@ export function createAuthGuards(db: Db, secret: string): AuthGuards {
       next();
     };
 
-  return { requireSignIn, requireRoles };
+  const requireClaims: RequestHandler = (req, _res, next) => {
+    const token = ExtractJwt.fromAuthHeaderAsBearerToken()(req);
+    if (!token) return next(unauthorized(UNAUTHORIZED_MESSAGE));
+    try {
+      const claims = jwt.verify(token, secret, JWT_VERIFY_OPTIONS) as AccessClaims;
+      const userId = Number(claims.sub);
+      if (!Number.isSafeInteger(userId) || typeof claims.tv !== 'number') return next(unauthorized(UNAUTHORIZED_MESSAGE));
+      req.claims = { userId, tokenVersion: claims.tv };
+      next();
+    } catch {
+      next(unauthorized(UNAUTHORIZED_MESSAGE));
+    }
+  };
+
+  return { requireSignIn, requireRoles, requireClaims };
 }

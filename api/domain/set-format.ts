@@ -259,7 +259,11 @@ export interface ReadingEvaluation {
   reason: VerdictResult['reason'];
   driftPct: number | null;
   uncertaintyOhms: number | null;
-  /** The plain verdict of the reading against the expected reading (or the nominal). */
+  /**
+   * The plain verdict of the reading against the expected reading (or the nominal), with its whole
+   * explanation. Null in the survey view (400 explanations would weigh a megabyte: the browser
+   * recomputes them with the same domain module); present in a save's answer.
+   */
   result: VerdictResult | null;
   /** Where the template has a network and the reading is in circuit: the part's implied value. */
   implied: { ohms: number | null; lowOhms: number | null; highOhms: number | null; explainable: boolean | null } | null;

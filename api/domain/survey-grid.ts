@@ -147,6 +147,9 @@ function nominalText(n: Component['nominal']): string {
   return formatOhms(n.ohms);
 }
 
+/** Evaluations kept per grid (a survey's readings with their follow-ups fit many times over). */
+const MEMO_MAX = 20_000;
+
 interface ConditionNetworks {
   nets: ToleranceNetworks | null;
 }
@@ -163,6 +166,7 @@ export class SurveyGrid {
   private readonly rule: AcceptanceRule;
   private readonly tubes: Map<string, TubeTypeRecord>;
   private readonly surveyTubesIn: boolean;
+  private readonly memo = new Map<string, ReadingEvaluation>();
 
   constructor(input: GridInput) {
     const { doc, deviated } = applyDeviations(input.document, input.deviations);
@@ -303,8 +307,22 @@ export class SurveyGrid {
     return out;
   }
 
-  /** The verdict of one reading in the survey's context. */
+  /**
+   * The verdict of one reading in the survey's context. Memoised per reading content (a grid is
+   * immutable and the verdict depends only on the reading and the grid), so a survey reopened or a
+   * reading confirmed again costs a lookup; the caller must not mutate the answer.
+   */
   evaluate(reading: GridReading, opts: { jointChecked?: boolean } = {}): ReadingEvaluation {
+    const memoKey = `${reading.id}|${reading.testPointKey}|${reading.state}|${reading.ohms}|${reading.method}|${reading.rangeIndex}|${reading.liftedEnd}|${opts.jointChecked === true}`;
+    const hit = this.memo.get(memoKey);
+    if (hit !== undefined) return hit;
+    const answer = this.evaluateFresh(reading, opts);
+    if (this.memo.size >= MEMO_MAX) this.memo.clear();
+    this.memo.set(memoKey, answer);
+    return answer;
+  }
+
+  private evaluateFresh(reading: GridReading, opts: { jointChecked?: boolean }): ReadingEvaluation {
     const row = this.byKey.get(reading.testPointKey);
     const tp = this.testPoints.get(reading.testPointKey);
     if (row === undefined || tp === undefined) throw new GridInputError('testPointKey', `no test point ${reading.testPointKey} in this template version`);

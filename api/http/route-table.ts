@@ -21,6 +21,11 @@ export interface RouteDef {
   summary: string;
   /** Runs first: a malformed request is a 400 before any 401/403 (DESIGN.md §4 precedence). */
   validate?: RequestHandler;
+  /**
+   * `folded`: only for access 'signed-in' — the guard verifies the token without a query and the
+   * handler checks the account (active, token version) inside its own statement (req.claims).
+   */
+  auth?: 'folded';
   /** Extra middleware between the guards and the handler (e.g. a route's own rate limit). */
   before?: RequestHandler[];
   handler: RequestHandler;
@@ -34,7 +39,8 @@ export function mountRoutes(app: Express, routes: readonly RouteDef[], guards: A
     seen.add(key);
     const pipeline: RequestHandler[] = [];
     if (r.validate) pipeline.push(r.validate);
-    if (r.access !== 'public') pipeline.push(guards.requireSignIn);
+    if (r.auth === 'folded' && r.access !== 'signed-in') throw new Error(`Route table: ${key} folds the account check, which only a 'signed-in' route may`);
+    if (r.access !== 'public') pipeline.push(r.auth === 'folded' ? guards.requireClaims : guards.requireSignIn);
     if (Array.isArray(r.access)) pipeline.push(guards.requireRoles(r.access));
     pipeline.push(...(r.before ?? []), r.handler);
     app[r.method](r.path, ...pipeline);

@@ -19,7 +19,9 @@ import { GridInputError, parseReadingText, type SurveyGrid } from '../domain/sur
 import type { MeterProfile } from '../domain/meter';
 import type { Method, ReadingState } from '../domain/words';
 import type { Tx } from '../db';
-import { AppError, badRequest, conflict, notFound } from '../http/errors';
+import { AppError, badRequest, conflict, notFound, unauthorized } from '../http/errors';
+import { findUserById } from '../auth/auth.repository';
+import type { VerifiedClaims } from '../auth/guards';
 import type { Actor } from '../sets/sets.repository';
 import { cachedGrid, cachedRows, gridOf, gridReadingOf, meterOf } from './survey-view';
 import * as repo from './surveys.repository';
@@ -106,14 +108,23 @@ const recordOfRaw = (r: RawReading): ReadingRecord =>
     updatedAt: new Date(r.updated_at),
   });
 
-const visibleSql = (user: Actor) =>
-  user.roles.includes('admin') ? sql`true` : sql`(s.owner_id = ${user.id} OR EXISTS (SELECT 1 FROM set_shares sh WHERE sh.set_id = s.id AND sh.user_id = ${user.id}))`;
+/** The caller's account as the save's own statement checks it (see `caller` in saveReading). */
+const ACCOUNT_DEACTIVATED = 'This account has been deactivated.';
+const TOKEN_STALE = 'Sign in to continue: the access token is missing, expired or no longer valid.';
+
+/** The caller as the other use cases take it: the account read once (a cold cache, or a miss). */
+async function actorOf(tx: Tx, caller: VerifiedClaims): Promise<Actor> {
+  const u = await findUserById(tx, caller.userId);
+  if (!u || u.tokenVersion !== caller.tokenVersion) throw unauthorized(TOKEN_STALE);
+  if (!u.active) throw unauthorized(ACCOUNT_DEACTIVATED, 'account-deactivated');
+  return { id: u.id, roles: u.roles };
+}
 
 /** The grid of a survey at the versions the save saw (cached), for the verdict of the answer. */
-async function gridAt(tx: Tx, surveyId: number, surveyVersion: number, setVersion: number, user: Actor): Promise<SurveyGrid> {
+async function gridAt(tx: Tx, surveyId: number, surveyVersion: number, setVersion: number, caller: VerifiedClaims): Promise<SurveyGrid> {
   const hit = cachedGrid(surveyId, surveyVersion, setVersion);
   if (hit) return hit;
-  const { survey, access } = await repo.visibleSurvey(tx, user, surveyId);
+  const { survey, access } = await repo.visibleSurvey(tx, await actorOf(tx, caller), surveyId);
   return gridOf(tx, survey, access.set);
 }
 
@@ -121,11 +132,17 @@ function evaluationOf(grid: SurveyGrid, r: ReadingRecord, jointChecked: boolean)
   return grid.evaluate(gridReadingOf(r), { jointChecked });
 }
 
-/** POST /api/surveys/:id/readings */
-export async function saveReading(ctx: Ctx, user: Actor, surveyId: number, input: ReadingInput): Promise<{ status: 200 | 201; body: ReadingSaved }> {
+/**
+ * POST /api/surveys/:id/readings. The route verifies the access token without a query (`auth:
+ * 'folded'`): the statement below checks the account (active, at the token's version), the set's
+ * visibility, the survey's state and the followed reading, and inserts — one round trip once this
+ * process has the survey's grid.
+ */
+export async function saveReading(ctx: Ctx, caller: VerifiedClaims, surveyId: number, input: ReadingInput): Promise<{ status: 200 | 201; body: ReadingSaved }> {
   let known = cachedRows(surveyId);
   if (known === undefined || !known.rows.has(input.testPointKey)) {
-    // First save of this survey in this process, or a key it does not know: decide access first (404 before 400).
+    // First save of this survey in this process, or a key it does not know: the account, then access (404 before 400).
+    const user = await actorOf(ctx.db, caller);
     const { survey, access } = await repo.visibleSurvey(ctx.db, user, surveyId);
     await gridOf(ctx.db, survey, access.set);
     known = cachedRows(surveyId)!;
@@ -137,28 +154,41 @@ export async function saveReading(ctx: Ctx, user: Actor, surveyId: number, input
 
   const follows = input.followsReadingId ?? null;
   const statement = sql`
-    WITH acc AS (
+    WITH u AS (
+      SELECT id, name, 'admin' = ANY(roles) AS admin FROM users
+      WHERE id = ${caller.userId} AND active AND token_version = ${caller.tokenVersion}
+    ), acc AS (
       SELECT sv.id, sv.state::text AS state, sv.version AS survey_version, s.version AS set_version,
              (sv.joint_checks ? ${input.testPointKey}) AS joint_checked,
              (${follows}::bigint IS NULL OR EXISTS (
                SELECT 1 FROM readings f WHERE f.id = ${follows}::bigint AND f.survey_id = sv.id AND f.test_point_key = ${input.testPointKey})) AS follows_ok
-      FROM surveys sv JOIN sets s ON s.id = sv.set_id
-      WHERE sv.id = ${surveyId} AND ${visibleSql(user)}
+      FROM surveys sv JOIN sets s ON s.id = sv.set_id CROSS JOIN u
+      WHERE sv.id = ${surveyId} AND (u.admin OR s.owner_id = u.id OR EXISTS (SELECT 1 FROM set_shares sh WHERE sh.set_id = s.id AND sh.user_id = u.id))
     ), ins AS (
       INSERT INTO readings (survey_id, test_point_key, client_key, follows_reading_id, text, state, ohms, method, lifted_end, range_index, note, prediction, entered_by, taken_at)
       SELECT acc.id, ${input.testPointKey}, ${input.clientKey}, ${follows}::bigint, ${value.text}, ${value.state}::reading_state, ${value.ohms}::float8,
              ${input.method ?? 'in-circuit'}::reading_method, ${input.liftedEnd ?? null}::smallint, ${input.rangeIndex ?? null}::smallint,
-             ${input.note ?? ''}, ${input.prediction ?? null}, ${user.id}, coalesce(${input.takenAt ?? null}::timestamptz, now())
+             ${input.note ?? ''}, ${input.prediction ?? null}, ${caller.userId}, coalesce(${input.takenAt ?? null}::timestamptz, now())
       FROM acc WHERE acc.state = 'draft' AND acc.follows_ok
       ON CONFLICT (survey_id, client_key) DO NOTHING
       RETURNING *
     )
-    SELECT acc.state, acc.survey_version, acc.set_version, acc.joint_checked, acc.follows_ok,
-      (SELECT row_to_json(x) FROM (SELECT i.*, (SELECT u.name FROM users u WHERE u.id = i.entered_by) AS entered_by_name FROM ins i) x) AS inserted,
-      (SELECT row_to_json(x) FROM (SELECT r.*, u.name AS entered_by_name FROM readings r LEFT JOIN users u ON u.id = r.entered_by
+    SELECT EXISTS (SELECT 1 FROM u) AS account_ok, acc.id AS survey_id, acc.state, acc.survey_version, acc.set_version, acc.joint_checked, acc.follows_ok,
+      (SELECT row_to_json(x) FROM (SELECT i.*, (SELECT u.name FROM u) AS entered_by_name FROM ins i) x) AS inserted,
+      (SELECT row_to_json(x) FROM (SELECT r.*, eu.name AS entered_by_name FROM readings r LEFT JOIN users eu ON eu.id = r.entered_by
                                    WHERE r.survey_id = acc.id AND r.client_key = ${input.clientKey}) x) AS existing
-    FROM acc`;
-  type Out = { state: string; survey_version: number; set_version: number; joint_checked: boolean; follows_ok: boolean; inserted: RawReading | null; existing: RawReading | null };
+    FROM (SELECT 1) one LEFT JOIN acc ON true`;
+  type Out = {
+    account_ok: boolean;
+    survey_id: number | null;
+    state: string;
+    survey_version: number;
+    set_version: number;
+    joint_checked: boolean;
+    follows_ok: boolean;
+    inserted: RawReading | null;
+    existing: RawReading | null;
+  };
   let out: Out | undefined;
   if (ctx.faults) {
     const faults = ctx.faults;
@@ -170,7 +200,11 @@ export async function saveReading(ctx: Ctx, user: Actor, surveyId: number, input
     await faults.around('reading-save', 'after-commit');
   } else out = (await ctx.db.execute<Out>(statement)).rows[0];
 
-  if (out === undefined) throw notFound('No such survey.');
+  if (out === undefined || !out.account_ok) {
+    await actorOf(ctx.db, caller); // says why: deactivated, or a stale token
+    throw unauthorized(TOKEN_STALE);
+  }
+  if (out.survey_id === null) throw notFound('No such survey.');
   let reading: ReadingRecord;
   let status: 200 | 201;
   if (out.existing) {
@@ -188,7 +222,7 @@ export async function saveReading(ctx: Ctx, user: Actor, surveyId: number, input
     reading = stored;
     status = 200;
   }
-  const grid = await gridAt(ctx.db, surveyId, out.survey_version, out.set_version, user);
+  const grid = await gridAt(ctx.db, surveyId, out.survey_version, out.set_version, caller);
   return { status, body: { reading, evaluation: evaluationOf(grid, reading, out.joint_checked), replayed: status === 200 } };
 }
 

@@ -157,12 +157,22 @@ export function currentReadings<R extends { id: number; testPointKey: string; fo
   return out;
 }
 
-/** Every reading's evaluation (by reading id) and the survey's counts over the current readings. */
-export function evaluateSurvey(grid: SurveyGrid, readings: readonly ReadingRecord[], jointChecks: Readonly<Record<string, unknown>>): { evaluations: Record<number, ReadingEvaluation>; counts: VerdictCounts; stages: Record<string, VerdictCounts> } {
+/**
+ * Every reading's evaluation (by reading id) and the survey's counts over the current readings.
+ * `slim` leaves out each evaluation's full verdict explanation (`result: null`): the survey view
+ * sends 400 of them and the browser recomputes the explanation with the same domain module.
+ */
+export function evaluateSurvey(
+  grid: SurveyGrid,
+  readings: readonly ReadingRecord[],
+  jointChecks: Readonly<Record<string, unknown>>,
+  slim = false,
+): { evaluations: Record<number, ReadingEvaluation>; counts: VerdictCounts; stages: Record<string, VerdictCounts> } {
   const evaluations: Record<number, ReadingEvaluation> = {};
   for (const r of readings) {
     if (grid.row(r.testPointKey) === undefined) continue;
-    evaluations[r.id] = grid.evaluate(gridReadingOf(r), { jointChecked: r.testPointKey in jointChecks });
+    const e = grid.evaluate(gridReadingOf(r), { jointChecked: r.testPointKey in jointChecks });
+    evaluations[r.id] = slim ? { ...e, result: null } : e;
   }
   const byKey = new Map<string, ReadingEvaluation>();
   for (const [key, r] of currentReadings(readings)) if (evaluations[r.id]) byKey.set(key, evaluations[r.id]);
@@ -220,7 +230,7 @@ export async function surveyViewOf(tx: Tx, survey: repo.SurveyRow, access: SetAc
     repo.SurveyRow[],
   ];
   const jointChecks = survey.jointChecks as SurveyView['survey']['jointChecks'];
-  const { evaluations, counts } = evaluateSurvey(grid, readings, jointChecks);
+  const { evaluations, counts } = evaluateSurvey(grid, readings, jointChecks, true);
 
   // The order carried over: the earlier survey's bench order, then any test point new in this version.
   let order: string[] = [];

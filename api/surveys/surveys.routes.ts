@@ -126,10 +126,11 @@ export function surveyRoutes(ctx: Ctx): RouteDef[] {
       method: 'post',
       path: '/api/surveys/:id/readings',
       access: 'signed-in',
+      auth: 'folded',
       summary: 'Save a reading (idempotent by client key: a replay answers 200 with the stored reading)',
       validate: validate({ body: readingBody, params: { id: ID } }),
       handler: async (req, res) => {
-        const out = await readingsUc.saveReading(ctx, req.signedIn!, Number(req.params.id), req.body as ReadingInput);
+        const out = await readingsUc.saveReading(ctx, req.claims!, Number(req.params.id), req.body as ReadingInput);
         res.status(out.status).json(out.body);
       },
     },

@@ -204,4 +204,31 @@ describe('Readings', () => {
     expect(replay.body.reading.id).toBe(saved.body.reading.id);
     expect(await count(s.id)).toBe(1);
   });
+
+  it('checks the account inside the save itself: a deactivated account or a stale token is a 401 and stores nothing, on a warm survey too', async () => {
+    const env = await apiEnv();
+    const owner = await userSession(['technician']);
+    const s = await makeSurvey({ ownerId: owner.user.id });
+    // The twin: the owner's save succeeds (and warms this process's grid, so the next saves take the one-statement path).
+    const ok = await request(env.app).post(`/api/surveys/${s.id}/readings`).set(bearer(owner)).send({ testPointKey: 'tp-r2', clientKey: clientKey(), text: '250k' });
+    expect(ok.status).toBe(201);
+    // A token issued before a password change (token version bumped) is refused.
+    await env.database.db.execute(sql`UPDATE users SET token_version = token_version + 1 WHERE id = ${owner.user.id}`);
+    const stale = await request(env.app).post(`/api/surveys/${s.id}/readings`).set(bearer(owner)).send({ testPointKey: 'tp-r2', clientKey: clientKey(), text: '251k' });
+    expect(stale.status).toBe(401);
+    expect(stale.body.error.code).toBe('unauthorized');
+    // A deactivated account is refused with its own code.
+    const other = await userSession(['technician']);
+    const s2 = await makeSurvey({ ownerId: other.user.id });
+    expect((await request(env.app).post(`/api/surveys/${s2.id}/readings`).set(bearer(other)).send({ testPointKey: 'tp-r2', clientKey: clientKey(), text: '250k' })).status).toBe(201);
+    await env.database.db.execute(sql`UPDATE users SET active = false WHERE id = ${other.user.id}`);
+    const off = await request(env.app).post(`/api/surveys/${s2.id}/readings`).set(bearer(other)).send({ testPointKey: 'tp-r2', clientKey: clientKey(), text: '252k' });
+    expect(off.status).toBe(401);
+    expect(off.body.error.code).toBe('account-deactivated');
+    // A forged token (wrong signature) never reaches the statement.
+    const forged = await request(env.app).post(`/api/surveys/${s2.id}/readings`).set('Authorization', `Bearer ${owner.accessToken.slice(0, -4)}AAAA`).send({ testPointKey: 'tp-r2', clientKey: clientKey(), text: '252k' });
+    expect(forged.status).toBe(401);
+    expect(await count(s.id)).toBe(1);
+    expect(await count(s2.id)).toBe(1);
+  });
 });
