@@ -83,6 +83,8 @@ export class SurveySession {
   readonly lifts = signal<ReadonlyMap<string, LiftMode>>(new Map());
   readonly conflicts = signal<ReadonlyMap<string, ReadingConflict>>(new Map());
   readonly meterCheck = signal<MeterCheck | null>(null);
+  /** Per row: the meter range and note the next reading there is taken with (range null: inferred). */
+  readonly nextOptions = signal<ReadonlyMap<string, { rangeIndex: number | null; note: string }>>(new Map());
 
   private readonly pendingIds = new Map<string, number>();
   private pendingCounter = 0;
@@ -345,10 +347,12 @@ export class SurveySession {
     if (row === undefined) return 'Unknown test point.';
     if (row.pair !== null) return 'A pair relation is judged from its two positions; it takes no reading of its own.';
     const lift = this.rowStates().get(testPointKey)?.lift ?? null;
+    const options = this.nextOptions().get(testPointKey);
+    const rangeIndex = options?.rangeIndex ?? null;
     let input: ReadingInput;
     if ('text' in entry) {
       try {
-        parseReadingText(entry.text, v.survey.meter?.profile ?? null);
+        parseReadingText(entry.text, v.survey.meter?.profile ?? null, rangeIndex);
       } catch (e) {
         return e instanceof GridInputError ? e.message : String(e);
       }
@@ -360,6 +364,12 @@ export class SurveySession {
     input.liftedEnd = lift?.end ?? null;
     input.followsReadingId = lift?.followsReadingId ?? null;
     input.takenAt = new Date().toISOString();
+    if (rangeIndex !== null) input.rangeIndex = rangeIndex;
+    if (options?.note) {
+      input.note = options.note;
+      // The note belongs to this reading; the range stays for the row.
+      this.setNextOptions(testPointKey, { rangeIndex, note: '' });
+    }
     const followsClientKey = lift?.followsClientKey ?? null;
     if (lift !== null && (lift.followsReadingId !== null || lift.followsClientKey !== null)) {
       // Only the first reading after the lift follows the prompting one; later ones stay on the lifted lead.
@@ -386,6 +396,12 @@ export class SurveySession {
       promptedByClientKey,
     });
     return null;
+  }
+
+  setNextOptions(testPointKey: string, options: { rangeIndex: number | null; note: string }): void {
+    const m = new Map(this.nextOptions());
+    m.set(testPointKey, options);
+    this.nextOptions.set(m);
   }
 
   /** Forgets a lift that was chosen by mistake before a reading (the lifted-lead entry stays on the set's list). */

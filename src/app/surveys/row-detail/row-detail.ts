@@ -85,6 +85,24 @@ export class RowDetail {
   });
   protected readonly serverWord = computed(() => VERDICT_LABELS[this.state().serverVerdict ?? 'not-read']);
 
+  /** The meter's ranges, for the next reading's range (none without a meter profile). */
+  protected readonly ranges = computed(() => {
+    const m = this.session.view()?.survey.meter?.profile;
+    if (!m) return [];
+    return m.kind === 'digital'
+      ? m.ranges.map((r, i) => ({ index: i, label: `${i + 1}: ${ohmsOrDash(r.fullScaleOhms)} full scale` }))
+      : m.ranges.map((r, i) => ({ index: i, label: `${i + 1}: centre ${ohmsOrDash(r.centreOhms)}` }));
+  });
+  protected readonly options = computed(() => this.session.nextOptions().get(this.state().row.testPointKey) ?? { rangeIndex: null, note: '' });
+
+  protected setRange(value: string): void {
+    this.session.setNextOptions(this.state().row.testPointKey, { ...this.options(), rangeIndex: value === '' ? null : Number(value) });
+  }
+
+  protected setNote(value: string): void {
+    this.session.setNextOptions(this.state().row.testPointKey, { ...this.options(), note: value });
+  }
+
   protected readonly amendText = signal('');
   protected readonly amendReason = signal('');
   protected readonly amendMessage = signal('');

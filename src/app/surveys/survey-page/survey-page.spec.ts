@@ -424,4 +424,47 @@ describe('SurveyPage', () => {
     expect(button()).toBeNull();
     expect(input('tp-r1').readOnly).toBeTrue();
   });
+
+  it('the next reading of a row takes the range and note chosen beside it; the note goes with one reading only', async () => {
+    const view = surveyView({
+      meter: {
+        name: 'Bench DMM',
+        profile: {
+          kind: 'digital',
+          autorange: false,
+          leadOhms: 0.2,
+          ranges: [
+            { fullScaleOhms: 199.99e3, resolutionOhms: 10, pctOfReading: 0.8, counts: 3 },
+            { fullScaleOhms: 1.9999e6, resolutionOhms: 100, pctOfReading: 0.8, counts: 3 },
+          ],
+        },
+        checkDate: null,
+      },
+      meterCheck: { text: '1k', ohms: 1000, knownOhms: 1000, tolerancePct: 1, ok: true, message: '', at: '2026-11-30T09:01:00Z' },
+    } as Partial<SurveyView['survey']>);
+    await open(view);
+    input('tp-r2').focus();
+    await settle();
+    const range = el.querySelector<HTMLSelectElement>('dm-row-detail [data-test="range"]')!;
+    range.value = '1';
+    range.dispatchEvent(new Event('change'));
+    const note = el.querySelector<HTMLInputElement>('dm-row-detail [data-test="note"]')!;
+    note.value = 'wax on the lug';
+    note.dispatchEvent(new Event('input'));
+    await settle();
+    type('tp-r2', '260k');
+    const first = await postedReading();
+    const body = first.request.body as ReadingInput;
+    expect(body.rangeIndex).toBe(1);
+    expect(body.note).toBe('wax on the lug');
+    first.flush(savedAnswer(view, record('tp-r2', '260k', { clientKey: body.clientKey, rangeIndex: 1, note: 'wax on the lug' })), { status: 201, statusText: 'Created' });
+    await settle();
+    type('tp-r2', '255k');
+    const second = await postedReading();
+    const again = second.request.body as ReadingInput;
+    expect(again.rangeIndex).toBe(1);
+    expect(again.note).toBeUndefined();
+    second.flush(savedAnswer(view, record('tp-r2', '255k', { clientKey: again.clientKey, rangeIndex: 1 })), { status: 201, statusText: 'Created' });
+    await settle();
+  });
 });
