@@ -244,6 +244,9 @@ export class PartsSection implements OnInit {
   }
 
   protected add(): void {
+    // The reason/reading rule is checked here, across two fields: start each attempt from their own validators.
+    this.form.controls.reason.updateValueAndValidity();
+    this.form.controls.readingId.updateValueAndValidity();
     this.form.markAllAsTouched();
     if (this.form.invalid || this.busy()) return;
     const v = this.form.getRawValue();
