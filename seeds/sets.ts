@@ -16,6 +16,7 @@
 import { createHash, randomBytes } from 'node:crypto';
 import { and, count, eq, sql } from 'drizzle-orm';
 import type { Db } from '../api/db';
+import { FIRST_POWER_KEY, gateItemsFor } from '../api/domain/gates';
 import type { MeterProfile } from '../api/domain/meter';
 import { formatCode } from '../api/domain/notation';
 import type { SetDeviation, SurveyConditions } from '../api/domain/set-format';
@@ -26,6 +27,7 @@ import type { Method, SurveyPurpose } from '../api/domain/words';
 import {
   bringUpEntries,
   chassisTemplates,
+  gateSignatures,
   liftedLeads,
   meterProfiles,
   partsRecord,
@@ -405,6 +407,12 @@ export async function seedDemoSets(db: Db): Promise<number> {
       createdAt: new Date('2026-10-08T11:00:00Z'),
     });
   }
+  // Every gate item of a transformer set signed the morning of first power, then first power itself.
+  const gateItems = gateItemsFor({ power: q.chassis.power, hotChassis: q.chassis.hotChassis });
+  await db.insert(gateSignatures).values([
+    ...gateItems.map((item, i) => ({ setId: set3.id, itemKey: item.key, action: 'signed', note: '', signedBy: tech.id, createdAt: new Date(Date.UTC(2026, 9, 12, 9, i * 3)) })),
+    { setId: set3.id, itemKey: FIRST_POWER_KEY, action: 'signed', note: 'Limiter lamp first, then the variac.', signedBy: tech.id, createdAt: new Date('2026-10-12T10:00:00Z') },
+  ]);
   await db.insert(bringUpEntries).values([
     { setId: set3.id, step: 'limiter-lamp', setting: '60 W lamp', mainsVolts: 121, currentAmps: 0.31, bPlus: [{ node: 'B+', volts: 212 }], observations: ['normal'], note: 'Lamp glowed briefly, then dim.', recordedBy: tech.id, createdAt: new Date('2026-10-12T10:05:00Z') },
     { setId: set3.id, step: 'variac', setting: 'variac 80 %', mainsVolts: 97, currentAmps: 0.42, bPlus: [{ node: 'B+', volts: 268 }], observations: ['hum'], note: 'Slight hum with the input open; normal with it shorted.', recordedBy: tech.id, createdAt: new Date('2026-10-12T10:25:00Z') },

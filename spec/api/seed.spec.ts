@@ -5,7 +5,7 @@ import { runMigrations } from '../../scripts/migrate';
 import { and, asc, eq } from 'drizzle-orm';
 import { SurveyGrid } from '../../api/domain/survey-grid';
 import type { TemplateDocument, TubeTypeRecord } from '../../api/domain/template-format';
-import { chassisTemplates, liftedLeads, partsRecord, provenanceLabels, readings, sets, surveys, templateVersions, tubeTypes, users } from '../../schema/index';
+import { chassisTemplates, gateSignatures, liftedLeads, partsRecord, provenanceLabels, readings, sets, surveys, templateVersions, tubeTypes, users } from '../../schema/index';
 import { createAdmin, DEMO_ACCOUNTS, seedDemo, SeedRefused } from '../../seeds/seed';
 
 describe('The demo seed', () => {
@@ -108,6 +108,9 @@ describe('The demo seed', () => {
     expect(museum.firstPowerAt).not.toBeNull();
     const labels = await database.db.select().from(provenanceLabels).where(eq(provenanceLabels.setId, museum.id));
     expect(labels.filter((x) => x.revokedAt === null).length).toBe(1);
+    const signed = await database.db.select().from(gateSignatures).where(eq(gateSignatures.setId, museum.id));
+    expect(signed.map((g) => g.itemKey)).toContain('first-power');
+    expect(signed.length).toBeGreaterThan(4);
     // Seeding again adds no set.
     await seedDemo(database.db, { NODE_ENV: 'development' });
     expect((await database.db.select().from(sets)).length).toBe(3);
