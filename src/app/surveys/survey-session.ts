@@ -80,7 +80,8 @@ export class SurveySession {
   readonly serverEvals = signal<ReadonlyMap<number, ReadingEvaluation>>(new Map());
   readonly outbox = signal<readonly OutboxItem[]>([]);
   readonly jointChecks = signal<ReadonlySet<string>>(new Set());
-  readonly lifts = signal<ReadonlyMap<string, LiftMode>>(new Map());
+  /** Lifts chosen on rows; null: the lead is back (the row reads in circuit again). */
+  readonly lifts = signal<ReadonlyMap<string, LiftMode | null>>(new Map());
   readonly conflicts = signal<ReadonlyMap<string, ReadingConflict>>(new Map());
   readonly meterCheck = signal<MeterCheck | null>(null);
   /** Per row: the meter range and note the next reading there is taken with (range null: inferred). */
@@ -210,7 +211,7 @@ export class SurveySession {
         refusal: refusals.get(key) ?? null,
         jointChecked,
         previous: reading === null ? null : (previous.get(key) ?? null),
-        lift: lifts.get(key) ?? (reading !== null && reading.method === 'lead-lifted' && reading.liftedEnd !== null ? { end: reading.liftedEnd, followsReadingId: null, followsClientKey: null } : null),
+        lift: lifts.has(key) ? (lifts.get(key) ?? null) : (reading !== null && reading.method === 'lead-lifted' && reading.liftedEnd !== null ? { end: reading.liftedEnd, followsReadingId: null, followsClientKey: null } : null),
         pair: pair === null ? null : samePair(this.previousRows.get(key)?.pair ?? null, pair),
         conflict: conflicts.get(key) ?? null,
       };
@@ -283,6 +284,7 @@ export class SurveySession {
       // Writes keyed before the store answered stay; the stored ones come first (older).
       const known = new Set(items.map((i) => i.seq));
       this.outbox.set([...items, ...this.outbox().filter((i) => !known.has(i.seq))].sort((a, b) => a.seq - b.seq));
+      if (cached?.lifts?.length) this.lifts.set(new Map([...cached.lifts, ...this.lifts()]));
       // This browser's copy shows until the API answers.
       if (cached !== undefined && this.loadState() === 'loading') this.applyView(cached.view, 'cached');
       return cached;
@@ -297,7 +299,8 @@ export class SurveySession {
     if (settled.ok) {
       this.applyView(settled.view, 'ok');
       this.away.set(false);
-      void this.db.putView(settled.view);
+      await local;
+      void this.db.putView(settled.view, [...this.lifts()]);
     } else {
       const cached = await local;
       if (this.surveyId() !== surveyId) return;
@@ -404,11 +407,12 @@ export class SurveySession {
     this.nextOptions.set(m);
   }
 
-  /** Forgets a lift that was chosen by mistake before a reading (the lifted-lead entry stays on the set's list). */
+  /** The row reads in circuit again (a lift chosen by mistake, or the lead re-soldered; the set's lifted-lead list keeps its entry). */
   cancelLift(testPointKey: string): void {
     const m = new Map(this.lifts());
-    m.delete(testPointKey);
+    m.set(testPointKey, null);
     this.lifts.set(m);
+    this.persistSoon();
   }
 
   setJointChecked(testPointKey: string, checked: boolean): void {
@@ -438,6 +442,7 @@ export class SurveySession {
     const m = new Map(this.lifts());
     m.set(key, mode);
     this.lifts.set(m);
+    this.persistSoon();
   }
 
   private applySent(item: OutboxItem, result: SentResult): void {
@@ -452,7 +457,7 @@ export class SurveySession {
       let changed = false;
       const lifts = new Map(this.lifts());
       for (const [k, m] of lifts) {
-        if (m.followsClientKey === reading.clientKey) {
+        if (m !== null && m.followsClientKey === reading.clientKey) {
           lifts.set(k, { ...m, followsReadingId: reading.id, followsClientKey: null });
           changed = true;
         }
@@ -566,7 +571,7 @@ export class SurveySession {
     try {
       const view = await firstValueFrom(this.api.survey(id));
       this.applyView(view, 'ok');
-      void this.db.putView(view);
+      void this.db.putView(view, [...this.lifts()]);
     } catch (err: unknown) {
       if (err instanceof HttpErrorResponse && isTransient(err)) this.away.set(true);
     }
@@ -664,7 +669,7 @@ export class SurveySession {
     for (const [id, e] of this.serverEvals()) evaluations[id] = e;
     const jointChecks: SurveyView['survey']['jointChecks'] = {};
     for (const k of this.jointChecks()) jointChecks[k] = v.survey.jointChecks[k] ?? { by: null, at: new Date().toISOString() };
-    await this.db.putView({ ...v, readings: [...this.stored()], evaluations, survey: { ...v.survey, jointChecks, meterCheck: this.meterCheck() } });
+    await this.db.putView({ ...v, readings: [...this.stored()], evaluations, survey: { ...v.survey, jointChecks, meterCheck: this.meterCheck() } }, [...this.lifts()]);
   }
 }
 

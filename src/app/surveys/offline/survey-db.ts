@@ -37,6 +37,8 @@ export interface CachedView {
   surveyId: number;
   view: SurveyView;
   savedAt: string;
+  /** Leads lifted on rows whose follow-up reading is not keyed yet (the API's view does not carry them). */
+  lifts?: [string, { end: 0 | 1; followsReadingId: number | null; followsClientKey: string | null } | null][];
 }
 
 interface OfflineSchema extends DBSchema {
@@ -90,8 +92,8 @@ export class SurveyDb {
     return db ? db.get('views', surveyId) : this.memViews.get(surveyId);
   }
 
-  async putView(view: SurveyView): Promise<void> {
-    const entry: CachedView = { surveyId: view.survey.id, view, savedAt: new Date().toISOString() };
+  async putView(view: SurveyView, lifts: CachedView['lifts'] = []): Promise<void> {
+    const entry: CachedView = { surveyId: view.survey.id, view, savedAt: new Date().toISOString(), lifts };
     const db = await this.open();
     if (db) await db.put('views', entry);
     else this.memViews.set(entry.surveyId, entry);

@@ -467,4 +467,43 @@ describe('SurveyPage', () => {
     second.flush(savedAnswer(view, record('tp-r2', '255k', { clientKey: again.clientKey, rangeIndex: 1 })), { status: 201, statusText: 'Created' });
     await settle();
   });
+
+  it('a lifted lead survives a reload until its reading is keyed; "not lifted" puts the row back in circuit', async () => {
+    const prompting = record('tp-r2', '120k');
+    const view = surveyView({}, { readings: [prompting] });
+    await open(view);
+    input('tp-r2').focus();
+    press(input('tp-r2'), 'l');
+    press(input('tp-r2'), '1');
+    const lift = await nextRequest(http, (r) => r.method === 'POST' && r.url === '/api/surveys/5/lifted-leads');
+    expect(lift.request.body).toEqual({ componentKey: 'c-r2', end: 0, promptedByReadingId: prompting.id, note: '' });
+    lift.flush({ id: 2, setId: 3, surveyId: 5, componentKey: 'c-r2', componentRef: 'R2', end: 0, node: 'V1.7', promptedByReadingId: prompting.id, liftedBy: null, liftedAt: '2026-11-30T09:10:00Z', resolderedBy: null, resolderedAt: null, recheckReadingId: null, note: '' }, { status: 201, statusText: 'Created' });
+    await settle();
+    await nextTask(300);
+    fixture.destroy();
+
+    await open(view);
+    expect(row('tp-r2').querySelector('.lift')!.textContent).toContain('lead lifted, end 1');
+    type('tp-r2', '250k');
+    const req = await postedReading();
+    const body = req.request.body as ReadingInput;
+    expect(body.method).toBe('lead-lifted');
+    expect(body.liftedEnd).toBe(0);
+    expect(body.followsReadingId).toBe(prompting.id);
+    const followUp = record('tp-r2', '250k', { clientKey: body.clientKey, method: 'lead-lifted', liftedEnd: 0, followsReadingId: prompting.id });
+    req.flush(savedAnswer(view, followUp), { status: 201, statusText: 'Created' });
+    await settle();
+
+    // Its twin: the lead is back; the next reading is in circuit again.
+    input('tp-r2').focus();
+    await settle();
+    Array.from(el.querySelectorAll<HTMLButtonElement>('dm-row-detail .lifted button')).find((b) => b.textContent!.includes('Not lifted'))!.click();
+    await settle();
+    type('tp-r2', '240k');
+    const back = await postedReading();
+    expect((back.request.body as ReadingInput).method).toBe('in-circuit');
+    expect((back.request.body as ReadingInput).liftedEnd).toBeNull();
+    back.flush(savedAnswer(view, record('tp-r2', '240k', { clientKey: (back.request.body as ReadingInput).clientKey })), { status: 201, statusText: 'Created' });
+    await settle();
+  });
 });
