@@ -40,6 +40,8 @@ export interface OutFinding {
   from: string | null;
   to: string | null;
   readingId: number;
+  /** The reading as typed (`5M`, `OL`), for the screen. */
+  text?: string;
   verdict: Verdict;
   method: Method;
   decision: { list: 'order' | 'confirm'; nextStep: NextStep | null };
@@ -83,7 +85,7 @@ export interface Marks {
   receivedAt: string | null;
 }
 
-export interface OrderLine {
+export interface OrderLine extends Marks {
   componentKey: string;
   ref: string;
   kind: ComponentKind;
@@ -105,13 +107,15 @@ export interface OrderLine {
   /** Lines of the same value, wattage and type share this key and its quantity. */
   purchaseKey: string;
   quantity: number;
-  marks: Marks;
 }
 
 export interface ConfirmLine {
   testPointKey: string;
   componentKey: string | null;
-  ref: string | null;
+  /** The component's reference, or the probe nodes of a chart reading (`V1.7 to B+1`). */
+  ref: string;
+  nominalText: string | null;
+  readingText: string;
   from: string | null;
   to: string | null;
   verdict: Verdict;
@@ -123,13 +127,16 @@ export interface ConfirmLine {
 
 export type CapacitorType = 'electrolytic' | 'film' | 'X-class' | 'Y-class' | 'X-or-Y-class' | 'as-original';
 
-export interface CapacitorLine {
+export interface CapacitorLine extends Marks {
   componentKey: string;
   ref: string;
+  /** `0.01 µF 400 V` */
+  text: string;
   uF: number;
   workingVolts: number;
   dielectric: Dielectric;
   polarised: boolean;
+  safetyClass: 'X' | 'Y' | null;
   /** The can and section of a multi-section can ("can C20, section B"), or null. */
   can: string | null;
   type: CapacitorType;
@@ -138,7 +145,6 @@ export interface CapacitorLine {
   warnings: string[];
   purchaseKey: string;
   quantity: number;
-  marks: Marks;
 }
 
 export interface PurchaseLine {
@@ -166,7 +172,7 @@ const ADVICE: Record<NextStep, string> = {
   'check-joint': 'Check the joints and contacts of the path, then the part: a high reading can be a bad joint.',
 };
 
-function noMarks(m?: { orderedAt: string | null; receivedAt: string | null }): Marks {
+function marksOf(m?: { orderedAt: string | null; receivedAt: string | null }): Marks {
   return { ordered: !!m?.orderedAt, orderedAt: m?.orderedAt ?? null, received: !!m?.receivedAt, receivedAt: m?.receivedAt ?? null };
 }
 
@@ -262,7 +268,7 @@ function orderLine(c: Component, f: OutFinding, input: ReplacementListInput): Or
     evidence: { testPointKey: f.testPointKey, readingId: f.readingId, verdict: f.verdict, method: f.method },
     purchaseKey: `R|${valueKey}|${watts ?? '?'}|${type}`,
     quantity: 1,
-    marks: noMarks(input.marks?.[c.key]),
+    ...marksOf(input.marks?.[c.key]),
   };
 }
 
@@ -275,17 +281,19 @@ function capacitorLine(c: Component, reason: CapacitorLine['reason'], input: Rep
   return {
     componentKey: c.key,
     ref: c.ref,
+    text: `${+cap.uF.toPrecision(4)} µF ${cap.workingVolts} V`,
     uF: cap.uF,
     workingVolts: cap.workingVolts,
     dielectric: cap.dielectric,
     polarised: cap.polarised,
+    safetyClass: cap.safetyClass,
     can: cap.can ? `can ${cap.can.id}, section ${cap.can.section}` : null,
     type,
     reason,
     warnings,
     purchaseKey: `C|${cap.uF}|${cap.workingVolts}|${type}|${cap.polarised ? 'polarised' : 'non-polarised'}`,
     quantity: 1,
-    marks: noMarks(input.marks?.[c.key]),
+    ...marksOf(input.marks?.[c.key]),
   };
 }
 
@@ -338,7 +346,9 @@ function confirmLine(f: OutFinding, c: Component | null, nextStep: NextStep): Co
   return {
     testPointKey: f.testPointKey,
     componentKey: c?.key ?? null,
-    ref: c?.ref ?? null,
+    ref: c?.ref ?? (f.from && f.to ? `${f.from} to ${f.to}` : f.testPointKey),
+    nominalText: c ? ('ohms' in c.nominal ? formatOhms(c.nominal.ohms) : c.nominal.state) : null,
+    readingText: f.text ?? '',
     from: f.from,
     to: f.to,
     verdict: f.verdict,
@@ -374,8 +384,8 @@ export function replacementCsv(list: ReplacementList): string {
   for (const p of list.purchase) {
     const members = lines.filter((x) => x.l.purchaseKey === p.purchaseKey);
     const first = members[0];
-    const ordered = members.every((m) => m.l.marks.ordered);
-    const received = members.every((m) => m.l.marks.received);
+    const ordered = members.every((m) => m.l.ordered);
+    const received = members.every((m) => m.l.received);
     if (first.kind === 'order') {
       const o = first.l as OrderLine;
       rows.push([

@@ -102,9 +102,10 @@ export async function recordFirstPower(ctx: Deps, user: Actor, setId: number, no
 // ---------------------------------------------------------------------------------------------
 // Bring-up log
 
-export async function getBringUp(ctx: Deps, user: Actor, setId: number): Promise<{ firstPowerAt: string | null; entries: BringUpEntry[] }> {
+/** The bring-up log, oldest step first (first power itself is on the gates: GET …/gates `firstPower`). */
+export async function getBringUp(ctx: Deps, user: Actor, setId: number): Promise<BringUpEntry[]> {
   const { set } = await visibleSet(ctx.db, user, setId);
-  return { firstPowerAt: set.firstPowerAt?.toISOString() ?? null, entries: await repo.bringUpOf(ctx.db, set.id) };
+  return repo.bringUpOf(ctx.db, set.id);
 }
 
 export type BringUpInput = Partial<Omit<BringUpEntry, 'id' | 'recordedBy' | 'createdAt'>> & Pick<BringUpEntry, 'step'>;
@@ -135,22 +136,10 @@ export async function addBringUp(ctx: Deps, user: Actor, setId: number, input: B
 // ---------------------------------------------------------------------------------------------
 // Parts record
 
-export interface PartsRecordView {
-  lines: PartsRecordLine[];
-  /** The newest line per component (the one that counts). */
-  current: Record<string, PartsRecordLine>;
-}
-
-function currentLines(lines: readonly PartsRecordLine[]): Record<string, PartsRecordLine> {
-  const out: Record<string, PartsRecordLine> = {};
-  for (const l of lines) out[l.componentKey] = l;
-  return out;
-}
-
-export async function getPartsRecord(ctx: Deps, user: Actor, setId: number): Promise<PartsRecordView> {
+/** Every line in the order recorded (append-only: the newest line of a component is the one that counts). */
+export async function getPartsRecord(ctx: Deps, user: Actor, setId: number): Promise<PartsRecordLine[]> {
   const { set } = await visibleSet(ctx.db, user, setId);
-  const lines = (await repo.partsRecordOf(ctx.db, set.id)).map(stripSet);
-  return { lines, current: currentLines(lines) };
+  return (await repo.partsRecordOf(ctx.db, set.id)).map(stripSet);
 }
 
 const stripSet = ({ setId: _s, ...l }: PartsRecordLine & { setId: number }): PartsRecordLine => l;
@@ -304,10 +293,10 @@ export async function createLabel(ctx: Pick<Ctx, 'db' | 'config'>, user: Actor, 
   });
 }
 
-export async function listLabels(ctx: Pick<Ctx, 'db' | 'config'>, user: Actor, setId: number): Promise<{ publicBaseUrl: string | null; labels: LabelRecord[] }> {
+/** The set's labels, newest first (a revoked one keeps its dates, not its token). */
+export async function listLabels(ctx: Pick<Ctx, 'db' | 'config'>, user: Actor, setId: number): Promise<LabelRecord[]> {
   const { set } = await visibleSet(ctx.db, user, setId);
-  const base = ctx.config.publicBaseUrl;
-  return { publicBaseUrl: base, labels: (await repo.labelsOf(ctx.db, set.id)).map((l) => labelRecord(base, l)) };
+  return (await repo.labelsOf(ctx.db, set.id)).map((l) => labelRecord(ctx.config.publicBaseUrl, l));
 }
 
 export async function revokeLabel(ctx: Pick<Ctx, 'db' | 'config'>, user: Actor, setId: number, labelId: number): Promise<LabelRecord> {

@@ -11,7 +11,8 @@ import { sets } from '../../schema/index';
 import { checkCapacitors } from '../domain/capacitor-checks';
 import { compareRows, partInstances, type CompareRow, type CompareSide, type HistoryPointInput, type PartInstance, type PartReplacementInput } from '../domain/part-history';
 import { replacementCsv, replacementList, type OutFinding, type ReplacementList } from '../domain/replacement-list';
-import type { BringUpEntry, LiftedLeadRecord, PartsRecordLine, ReadingRecord, SurveySummary, SurveyView, VerdictCounts } from '../domain/set-format';
+import type { BringUpEntry, LiftedLeadRecord, PartsRecordLine, ReadingRecord, SetDetail, SurveySummary, SurveyView, VerdictCounts } from '../domain/set-format';
+import { setDetailOf } from '../sets/sets.use-cases';
 import { replacementDecision, type GridRow, type SurveyGrid } from '../domain/survey-grid';
 import type { Tx } from '../db';
 import type { Ctx } from '../context';
@@ -64,6 +65,7 @@ export function findingsOf(grid: SurveyGrid, readings: readonly ReadingRecord[],
       from: row.from,
       to: row.to,
       readingId: r.id,
+      text: r.text || r.state,
       verdict: ev.verdict,
       method: r.method,
       decision: d,
@@ -225,22 +227,8 @@ export async function compareSurveys(ctx: Deps, user: Actor, setId: number, aId:
 
 export interface SetRecord {
   generatedAt: string;
-  set: {
-    id: number;
-    label: string;
-    accessionNumber: string;
-    customer: string;
-    serial: string;
-    restorationLevel: string;
-    jobStatus: string;
-    condition: string;
-    complaint: string;
-    intakeNotes: string;
-    deviations: SetRow['deviations'];
-    owner: { id: number; name: string };
-    template: SetRow['template'];
-    firstPowerAt: string | null;
-  };
+  /** As GET /api/sets/:id answers it. */
+  set: SetDetail;
   surveys: SurveyView[];
   partsRecord: PartsRecordLine[];
   gates: Gates;
@@ -251,10 +239,10 @@ export interface SetRecord {
 export async function getRecord(ctx: Deps, user: Actor, setId: number): Promise<SetRecord> {
   const db = ctx.db;
   const access = await visibleSet(db, user, setId);
-  return recordOf(db, access);
+  return recordOf(db, user, access);
 }
 
-async function recordOf(db: Tx, access: SetAccess): Promise<SetRecord> {
+async function recordOf(db: Tx, user: Actor, access: SetAccess): Promise<SetRecord> {
   const set = access.set;
   const list = await surveysOfSet(db, set.id);
   const surveys: SurveyView[] = [];
@@ -262,22 +250,7 @@ async function recordOf(db: Tx, access: SetAccess): Promise<SetRecord> {
   const [parts, gates, leads, bringUp] = await Promise.all([repo.partsRecordOf(db, set.id), gatesOf(db, set), liftedLeadsOf(db, set.id), repo.bringUpOf(db, set.id)]);
   return {
     generatedAt: new Date().toISOString(),
-    set: {
-      id: set.id,
-      label: set.label,
-      accessionNumber: set.accessionNumber,
-      customer: set.customer,
-      serial: set.serial,
-      restorationLevel: set.restorationLevel,
-      jobStatus: set.jobStatus,
-      condition: set.condition,
-      complaint: set.complaint,
-      intakeNotes: set.intakeNotes,
-      deviations: set.deviations,
-      owner: { id: set.ownerId, name: set.ownerName },
-      template: set.template,
-      firstPowerAt: set.firstPowerAt?.toISOString() ?? null,
-    },
+    set: await setDetailOf(db, user, access),
     surveys,
     partsRecord: parts.map(({ setId: _s, ...l }) => l),
     gates,
@@ -293,8 +266,10 @@ export interface PublicRecord {
   chassis: { maker: string; model: string; chassisNumber: string; yearFrom: number | null; yearTo: number | null };
   serial: string;
   restorationLevel: string;
-  surveys: { purpose: string; state: string; startedAt: string; completedAt: string | null; counts: VerdictCounts }[];
-  partsReplaced: { ref: string; value: string; at: string }[];
+  /** Complete surveys, oldest first; `date` is when the survey was completed (else started). */
+  surveys: { purpose: string; state: string; date: string; startedAt: string; completedAt: string | null; counts: VerdictCounts }[];
+  /** `text`: the new part's value as recorded (`240k`, `0.047 µF 630 V`); `date`: when the line was recorded. */
+  partsReplaced: { ref: string; text: string; date: string }[];
   firstPowerAt: string | null;
   /** Gate items signed (titles and dates only: no names). */
   gatesSigned: { title: string; at: string }[];
@@ -319,7 +294,8 @@ export async function publicRecord(ctx: Deps, token: string): Promise<PublicReco
   for (const s of list) {
     const grid = await gridOf(db, s, set);
     const { counts } = evaluateSurvey(grid, readings.get(s.id) ?? [], s.jointChecks as Record<string, unknown>);
-    surveys.push({ purpose: s.purpose, state: s.state, startedAt: s.createdAt.toISOString(), completedAt: s.completedAt?.toISOString() ?? null, counts });
+    const completedAt = s.completedAt?.toISOString() ?? null;
+    surveys.push({ purpose: s.purpose, state: s.state, date: completedAt ?? s.createdAt.toISOString(), startedAt: s.createdAt.toISOString(), completedAt, counts });
   }
   const v = await repo.newestVersion(db, set.templateId);
   const gates = await gatesOf(db, set);
@@ -331,7 +307,7 @@ export async function publicRecord(ctx: Deps, token: string): Promise<PublicReco
     surveys,
     partsReplaced: parts
       .filter((l) => l.action === 'replaced')
-      .map((l) => ({ ref: l.componentRef, value: l.newPart ? (l.newPart.uF !== null && l.newPart.ohms === null ? `${l.newPart.uF} µF${l.newPart.volts ? ` ${l.newPart.volts} V` : ''}` : l.newPart.text) : '', at: l.createdAt })),
+      .map((l) => ({ ref: l.componentRef, text: l.newPart?.text ?? '', date: l.createdAt })),
     firstPowerAt: set.firstPowerAt?.toISOString() ?? null,
     gatesSigned: gates.items.filter((i) => !i.open && i.latest).map((i) => ({ title: i.title, at: i.latest!.at })),
     notice: PUBLIC_NOTICE,

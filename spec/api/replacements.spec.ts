@@ -43,14 +43,17 @@ describe('Replacement list', () => {
         type: 'carbon-film',
         quantity: 1,
         evidence: { testPointKey: 'tp-r2', readingId: r2, verdict: 'high', method: 'lead-lifted' },
-        marks: { ordered: false, orderedAt: null, received: false, receivedAt: null },
+        ordered: false,
+        orderedAt: null,
+        received: false,
+        receivedAt: null,
       }),
     );
     expect(line.suggested.deviationPct).toBeCloseTo(-4, 12);
     const confirm = Object.fromEntries(r.body.confirm.map((c: { testPointKey: string }) => [c.testPointKey, c]));
     expect(Object.keys(confirm).sort()).toEqual(['tp-r1', 'tp-v1p']);
-    expect(confirm['tp-r1']).toEqual(jasmine.objectContaining({ componentKey: 'c-r1', ref: 'R1', verdict: 'low', nextStep: 'lift-a-lead', readingId: r1 }));
-    expect(confirm['tp-v1p']).toEqual(jasmine.objectContaining({ componentKey: null, from: 'V1.7', to: 'B+1', verdict: 'high', nextStep: 'check-joint' }));
+    expect(confirm['tp-r1']).toEqual(jasmine.objectContaining({ componentKey: 'c-r1', ref: 'R1', nominalText: '10 MΩ', readingText: '5M', verdict: 'low', nextStep: 'lift-a-lead', readingId: r1 }));
+    expect(confirm['tp-v1p']).toEqual(jasmine.objectContaining({ componentKey: null, ref: 'V1.7 to B+1', from: 'V1.7', to: 'B+1', verdict: 'high', nextStep: 'check-joint' }));
     // The recap by policy: C1 is a paper capacitor (check-values.md §5).
     expect(r.body.capacitors.map((c: { ref: string; reason: string; type: string }) => [c.ref, c.reason, c.type])).toEqual([['C1', 'policy', 'film']]);
   });
@@ -139,7 +142,7 @@ describe('Ordered / received marks', () => {
     expect(rec.body.orderedAt).toBe(o.body.orderedAt);
     expect(rec.body.received).toBeTrue();
     const list = await request(env.app).get(`/api/sets/${s.setId}/replacements`).set(bearer(tech));
-    expect(list.body.order[0].marks).toEqual({ ordered: true, orderedAt: o.body.orderedAt, received: true, receivedAt: rec.body.receivedAt });
+    expect(list.body.order[0]).toEqual(jasmine.objectContaining({ ordered: true, orderedAt: o.body.orderedAt, received: true, receivedAt: rec.body.receivedAt }));
     const csv = await request(env.app).get(`/api/sets/${s.setId}/replacements?format=csv`).set(bearer(tech));
     expect(csv.text.split('\r\n')[1]).toMatch(/,yes,yes$/);
 
