@@ -21,6 +21,7 @@ import type {
 } from '@domain/set-format';
 import type { GateItemState, GatesView as DomainGatesView } from '@domain/gates';
 import type { CompareRow, PartInstance } from '@domain/part-history';
+import type { ReplacementList } from '@domain/replacement-list';
 import type { SurveyPurpose, Verdict } from '@domain/words';
 import { callerHandles } from '../core/errors/api-error';
 
@@ -49,64 +50,10 @@ export type GateItem = GateItemState<PersonRef | null>;
 /** GET /api/sets/:id/gates (api/domain/gates.ts). */
 export type GatesView = DomainGatesView<PersonRef | null, LiftedLeadRecord>;
 
-export interface SuggestedValue {
-  readonly text: string;
-  readonly ohms: number;
-  readonly deviationPct: number;
-  readonly series?: string;
-  readonly inBand?: boolean;
-}
-
-/** A line of the order (parts out on conclusive evidence), aggregated across the set. */
-export interface OrderLine {
-  readonly componentKey: string;
-  readonly ref: string;
-  /** Every reference the line stands for (same value, watts and type). */
-  readonly refs?: readonly string[];
-  readonly kind: string;
-  readonly nominalText: string;
-  readonly suggested: SuggestedValue | null;
-  readonly watts: number | null;
-  /** `carbon film`, `flameproof`, `fusible` … */
-  readonly type: string;
-  readonly voltageWarning: string | null;
-  readonly notes?: readonly string[];
-  readonly quantity: number;
-  readonly ordered: boolean;
-  readonly received: boolean;
-}
-
-/** A part that is out on evidence that is not conclusive yet: never ordered. */
-export interface ConfirmLine {
-  readonly componentKey: string | null;
-  readonly ref: string;
-  readonly testPointKey: string;
-  readonly nominalText?: string;
-  readonly readingText?: string;
-  readonly verdict: Verdict;
-  readonly nextStep: 'lift-a-lead' | 'check-joint' | null;
-}
-
-/** A capacitor of the template's list, replaced by policy (the recap kit). */
-export interface CapacitorLine {
-  readonly componentKey: string;
-  readonly ref: string;
-  readonly text: string;
-  readonly uF?: number | null;
-  readonly volts?: number | null;
-  readonly kind?: string;
-  readonly safetyClass?: string | null;
-  readonly quantity?: number;
-  readonly ordered: boolean;
-  readonly received: boolean;
-}
-
-/** GET /api/sets/:id/replacements */
-export interface ReplacementList {
-  readonly surveyId?: number | null;
-  readonly order: readonly OrderLine[];
-  readonly confirm: readonly ConfirmLine[];
-  readonly capacitors: readonly CapacitorLine[];
+/** GET /api/sets/:id/replacements (api/domain/replacement-list.ts, with the survey it is drawn from). */
+export interface ReplacementsView extends ReplacementList {
+  readonly setId?: number;
+  readonly survey?: { readonly id: number; readonly purpose: string; readonly state: string; readonly startedAt: string } | null;
 }
 
 /** GET /api/sets/:id/history: each part instance across the set's surveys (api/domain/part-history.ts). */
@@ -123,7 +70,10 @@ export interface SurveyCompare {
 
 /** GET /api/sets/:id/record: everything the printable record shows. */
 export interface SetRecordView {
-  readonly set: SetDetail;
+  readonly set: Pick<
+    SetDetail,
+    'id' | 'label' | 'accessionNumber' | 'customer' | 'serial' | 'restorationLevel' | 'jobStatus' | 'condition' | 'complaint' | 'intakeNotes' | 'deviations' | 'owner' | 'firstPowerAt'
+  > & { readonly template: SetDetail['template'] };
   /** Each survey as the grid reads it (readings, evaluations, amendments). */
   readonly surveys: readonly SurveyView[];
   readonly partsRecord: readonly PartsRecordLine[];
@@ -135,25 +85,41 @@ export interface SetRecordView {
 
 export interface ProvenanceLabel {
   readonly id: number;
-  readonly token: string;
-  readonly url: string;
-  readonly createdAt?: string;
-  readonly revokedAt?: string | null;
+  /** Null once revoked. */
+  readonly token: string | null;
+  /** Null once revoked, or while the instance has no PUBLIC_BASE_URL. */
+  readonly url: string | null;
+  readonly createdBy?: PersonRef | null;
+  readonly createdAt: string;
+  readonly revokedAt: string | null;
+}
+
+/** GET /api/sets/:id/labels */
+export interface LabelsView {
+  readonly publicBaseUrl: string | null;
+  readonly labels: readonly ProvenanceLabel[];
 }
 
 /** GET /api/public/labels/:token: read-only, without owner identity. */
 export interface PublicRecord {
-  readonly chassis: { readonly maker: string; readonly model: string; readonly chassisNumber?: string; readonly yearFrom?: number | null; readonly yearTo?: number | null };
+  readonly chassis: { readonly maker: string; readonly model: string; readonly chassisNumber: string; readonly yearFrom: number | null; readonly yearTo: number | null };
   readonly serial: string;
-  readonly surveys: readonly { readonly date: string; readonly purpose: SurveyPurpose; readonly counts: VerdictCounts }[];
-  readonly partsReplaced: readonly { readonly ref: string; readonly text?: string; readonly date?: string }[];
+  readonly restorationLevel?: string;
+  readonly surveys: readonly { readonly purpose: SurveyPurpose; readonly state?: string; readonly startedAt: string; readonly completedAt?: string | null; readonly counts: VerdictCounts }[];
+  readonly partsReplaced: readonly { readonly ref: string; readonly value: string; readonly at: string }[];
   readonly firstPowerAt: string | null;
+  /** Gate items signed: titles and dates only, no names. */
+  readonly gatesSigned?: readonly { readonly title: string; readonly at: string }[];
+  readonly notice?: string;
 }
+
+/** The new part as the API takes it (it parses the value texts itself). */
+export type NewPartInput = Pick<NewPart, 'text' | 'uF' | 'watts' | 'volts' | 'kind' | 'measuredText'>;
 
 export interface PartsLineInput {
   readonly componentKey: string;
   readonly action: PartsAction;
-  readonly newPart?: Partial<NewPart> | null;
+  readonly newPart?: NewPartInput | null;
   readonly readingId?: number | null;
   readonly reason?: string;
   readonly note?: string;
@@ -162,7 +128,13 @@ export interface PartsLineInput {
 /** POST answer of a parts-record line: the line and the capacitor checks' findings. */
 export interface PartsLineSaved {
   readonly line?: PartsRecordLine;
-  readonly warnings?: readonly { readonly message: string }[];
+  readonly warnings?: readonly { readonly code?: string; readonly severity?: 'error' | 'warning'; readonly message: string }[];
+}
+
+/** GET /api/sets/:id/bring-up */
+export interface BringUpLog {
+  readonly firstPowerAt: string | null;
+  readonly entries: readonly BringUpEntry[];
 }
 
 export interface BringUpInput {
@@ -260,34 +232,37 @@ export class SetsApi {
   gates(id: number): Observable<GatesView> {
     return this.http.get<GatesView>(`/api/sets/${id}/gates`);
   }
-  signGate(id: number, itemKey: string, note: string): Observable<unknown> {
-    return this.http.post(`/api/sets/${id}/gates/${enc(itemKey)}/sign`, { note }, { context: formErrors() });
+  signGate(id: number, itemKey: string, note: string): Observable<GatesView> {
+    return this.http.post<GatesView>(`/api/sets/${id}/gates/${enc(itemKey)}/sign`, { note }, { context: formErrors() });
   }
-  reopenGate(id: number, itemKey: string, note: string): Observable<unknown> {
-    return this.http.post(`/api/sets/${id}/gates/${enc(itemKey)}/reopen`, { note }, { context: formErrors() });
+  /** The note (why) is required. */
+  reopenGate(id: number, itemKey: string, note: string): Observable<GatesView> {
+    return this.http.post<GatesView>(`/api/sets/${id}/gates/${enc(itemKey)}/reopen`, { note }, { context: formErrors() });
   }
   /** 409 (nothing written) while a gate item or a lifted lead is open: see `firstPowerReasons`. */
-  firstPower(id: number, note = ''): Observable<unknown> {
-    return this.http.post(`/api/sets/${id}/first-power`, { note }, { context: formErrors() });
+  firstPower(id: number, note = ''): Observable<GatesView> {
+    return this.http.post<GatesView>(`/api/sets/${id}/first-power`, { note }, { context: formErrors() });
   }
 
-  bringUp(id: number): Observable<BringUpEntry[]> {
-    return this.http.get<BringUpEntry[]>(`/api/sets/${id}/bring-up`);
+  /** The log and whether first power is recorded (the log is refused before it). */
+  bringUp(id: number): Observable<BringUpLog> {
+    return this.http.get<BringUpLog>(`/api/sets/${id}/bring-up`);
   }
   addBringUp(id: number, entry: BringUpInput): Observable<BringUpEntry> {
     return this.http.post<BringUpEntry>(`/api/sets/${id}/bring-up`, entry, { context: formErrors() });
   }
 
+  /** The lines in the order written (the API also sends the newest per component). */
   partsRecord(id: number): Observable<PartsRecordLine[]> {
-    return this.http.get<PartsRecordLine[]>(`/api/sets/${id}/parts-record`);
+    return this.http.get<unknown>(`/api/sets/${id}/parts-record`).pipe(map((answer) => listIn<PartsRecordLine>(answer, 'lines')));
   }
   addPartsLine(id: number, line: PartsLineInput): Observable<PartsLineSaved> {
     return this.http.post<PartsLineSaved>(`/api/sets/${id}/parts-record`, line, { context: formErrors() });
   }
 
-  replacements(id: number, surveyId?: number | null): Observable<ReplacementList> {
+  replacements(id: number, surveyId?: number | null): Observable<ReplacementsView> {
     const params = surveyId ? new HttpParams().set('surveyId', surveyId) : undefined;
-    return this.http.get<ReplacementList>(`/api/sets/${id}/replacements`, { params });
+    return this.http.get<ReplacementsView>(`/api/sets/${id}/replacements`, { params });
   }
   replacementsCsv(id: number, surveyId?: number | null): Observable<ExportFile> {
     let params = new HttpParams().set('format', 'csv');
@@ -312,15 +287,15 @@ export class SetsApi {
     return this.http.get<SetRecordView>(`/api/sets/${id}/record`, { context: callerHandles(404) });
   }
 
-  labels(id: number): Observable<ProvenanceLabel[]> {
-    return this.http.get<ProvenanceLabel[]>(`/api/sets/${id}/labels`);
+  labels(id: number): Observable<LabelsView> {
+    return this.http.get<LabelsView>(`/api/sets/${id}/labels`);
   }
   /** 409 `public-base-url-missing` while the instance has no PUBLIC_BASE_URL. */
   createLabel(id: number): Observable<ProvenanceLabel> {
     return this.http.post<ProvenanceLabel>(`/api/sets/${id}/labels`, {}, { context: formErrors() });
   }
-  revokeLabel(id: number, labelId: number): Observable<unknown> {
-    return this.http.post(`/api/sets/${id}/labels/${labelId}/revoke`, {}, { context: formErrors() });
+  revokeLabel(id: number, labelId: number): Observable<ProvenanceLabel> {
+    return this.http.post<ProvenanceLabel>(`/api/sets/${id}/labels/${labelId}/revoke`, {}, { context: formErrors() });
   }
 
   exportSets(format: 'json' | 'csv'): Observable<ExportFile> {

@@ -34,6 +34,9 @@ type Loaded = { state: 'loading' } | { state: 'ok'; value: PublicRecord } | { st
           {{ r.chassis.chassisNumber ? 'Chassis ' + r.chassis.chassisNumber + ' · ' : '' }}serial {{ r.serial || 'not recorded' }}
           {{ years(r) }}
         </p>
+        @if (r.notice) {
+          <p class="sub">{{ r.notice }}</p>
+        }
         <p class="notice">
           A read-only record of what was measured and replaced on this set. It certifies nothing: no reading or verdict here means the set
           is safe to use. Have it checked by someone qualified before you plug it in.
@@ -42,7 +45,7 @@ type Loaded = { state: 'loading' } | { state: 'ok'; value: PublicRecord } | { st
         @if (r.surveys.length) {
           <ul>
             @for (s of r.surveys; track $index) {
-              <li><strong>{{ purposes[s.purpose] }}, {{ s.date | date: 'mediumDate' }}</strong>: {{ counts(s.counts) }}</li>
+              <li><strong>{{ purposes[s.purpose] ?? s.purpose }}, {{ s.startedAt | date: 'mediumDate' }}</strong>: {{ counts(s.counts) }}</li>
             }
           </ul>
         } @else {
@@ -52,11 +55,19 @@ type Loaded = { state: 'loading' } | { state: 'ok'; value: PublicRecord } | { st
         @if (r.partsReplaced.length) {
           <ul>
             @for (p of r.partsReplaced; track $index) {
-              <li>{{ p.ref }}{{ p.text ? ': ' + p.text : '' }}{{ p.date ? ' (' + (p.date | date: 'mediumDate') + ')' : '' }}</li>
+              <li>{{ p.ref }}{{ p.value ? ': ' + p.value : '' }} ({{ p.at | date: 'mediumDate' }})</li>
             }
           </ul>
         } @else {
           <p>None recorded.</p>
+        }
+        @if (r.gatesSigned?.length) {
+          <h2>Checks signed before first power</h2>
+          <ul>
+            @for (g of r.gatesSigned; track $index) {
+              <li>{{ g.title }} ({{ g.at | date: 'mediumDate' }})</li>
+            }
+          </ul>
         }
         <h2>First power</h2>
         <p>{{ r.firstPowerAt ? (r.firstPowerAt | date: 'mediumDate') : 'Not recorded.' }}</p>
@@ -74,7 +85,7 @@ export class PublicRecordPage {
 
   /** Route parameter. */
   readonly token = input.required<string>();
-  protected readonly purposes = PURPOSE_LABELS;
+  protected readonly purposes: Readonly<Record<string, string>> = PURPOSE_LABELS;
   protected readonly counts = countsText;
   protected readonly loaded = signal<Loaded>({ state: 'loading' });
   protected readonly record = computed(() => {

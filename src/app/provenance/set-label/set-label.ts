@@ -36,12 +36,14 @@ export class SetLabel {
 
   protected readonly set = signal<SetDetail | null>(null);
   protected readonly labels = signal<readonly ProvenanceLabel[]>([]);
+  /** False: the instance has no PUBLIC_BASE_URL, so no label can be made. */
+  protected readonly baseUrlSet = signal(true);
   protected readonly loadError = signal<string | null>(null);
   protected readonly busy = signal(false);
   protected readonly error = signal<{ message: string; baseUrlMissing: boolean } | null>(null);
   protected readonly help = NO_BASE_URL_HELP;
   /** The label in use: the newest one not revoked. */
-  protected readonly active = computed(() => [...this.labels()].filter((l) => !l.revokedAt).sort((a, b) => b.id - a.id)[0] ?? null);
+  protected readonly active = computed(() => [...this.labels()].filter((l) => !l.revokedAt && l.url !== null).sort((a, b) => b.id - a.id)[0] ?? null);
   protected readonly revoked = computed(() => this.labels().filter((l) => l.revokedAt));
   protected readonly qr = signal<string | null>(null);
 
@@ -65,7 +67,8 @@ export class SetLabel {
           return;
         }
         this.set.set(a.value.set);
-        this.labels.set(a.value.labels);
+        this.labels.set(a.value.labels.labels);
+        this.baseUrlSet.set(a.value.labels.publicBaseUrl !== null);
       });
 
     effect(() => {
@@ -74,7 +77,7 @@ export class SetLabel {
         this.qr.set(null);
         return;
       }
-      qrDataUrl(label.url).then(
+      qrDataUrl(label.url!).then(
         (url) => this.qr.set(url),
         () => this.qr.set(null),
       );
@@ -93,7 +96,9 @@ export class SetLabel {
       error: (err: unknown) => {
         this.busy.set(false);
         const e = apiErrorOf(err);
-        this.error.set({ message: e.message, baseUrlMissing: e.status === 409 && e.code === 'public-base-url-missing' });
+        const missing = e.status === 409 && e.code === 'public-base-url-missing';
+        if (missing) this.baseUrlSet.set(false);
+        this.error.set({ message: e.message, baseUrlMissing: missing });
       },
     });
   }
@@ -103,10 +108,9 @@ export class SetLabel {
     this.busy.set(true);
     this.error.set(null);
     this.api.revokeLabel(this.setId(), label.id).subscribe({
-      next: () => {
+      next: (revoked) => {
         this.busy.set(false);
-        const at = new Date().toISOString();
-        this.labels.update((list) => list.map((l) => (l.id === label.id ? { ...l, revokedAt: at } : l)));
+        this.labels.update((list) => list.map((l) => (l.id === label.id ? revoked : l)));
       },
       error: (err: unknown) => {
         this.busy.set(false);

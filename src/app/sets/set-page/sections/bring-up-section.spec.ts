@@ -15,17 +15,42 @@ describe('BringUpSection', () => {
     clearAuthStorage();
   });
 
-  it('says to record first power first when the API refuses the log (409), and offers no form', async () => {
+  it('offers no form before first power is recorded, and says where to record it', async () => {
     const { fixture, text } = await mount(BringUpSection, { set: setDetail() });
-    (await nextRequest(http, '/api/sets/5/bring-up')).flush({ error: { code: 'no-first-power', message: 'First power is not recorded.' } }, { status: 409, statusText: 'Conflict' });
+    (await nextRequest(http, '/api/sets/5/bring-up')).flush({ firstPowerAt: null, entries: [] });
     await fixture.whenStable();
-    expect(text()).toContain('Record first power under Safety gates first.');
+    expect(text()).toContain('once "ready for first power" is recorded under Safety gates');
     expect((fixture.nativeElement as HTMLElement).querySelector('form')).toBeNull();
+  });
+
+  it('shows the refusal of a step the API will not log (409)', async () => {
+    const { fixture, loader, text } = await mount(BringUpSection, { set: setDetail() });
+    (await nextRequest(http, '/api/sets/5/bring-up')).flush({ firstPowerAt: '2026-03-05T10:00:00Z', entries: [] });
+    await fixture.whenStable();
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Add to the log' }))).click();
+    (await nextRequest(http, (r) => r.method === 'POST' && r.url === '/api/sets/5/bring-up')).flush(
+      { error: { code: 'first-power-not-recorded', message: 'Record "ready for first power" before logging the bring-up.' } },
+      { status: 409, statusText: 'Conflict' },
+    );
+    await fixture.whenStable();
+    expect(text()).toContain('Record it under Safety gates first.');
+    expect((fixture.nativeElement as HTMLElement).querySelector('form')).toBeNull();
+  });
+
+  it('refuses mains volts beyond 300 before sending', async () => {
+    const { fixture, loader, text } = await mount(BringUpSection, { set: setDetail() });
+    (await nextRequest(http, '/api/sets/5/bring-up')).flush({ firstPowerAt: '2026-03-05T10:00:00Z', entries: [] });
+    await fixture.whenStable();
+    await (await loader.getHarness(MatInputHarness.with({ selector: '[formControlName=mainsVolts]' }))).setValue('2400');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Add to the log' }))).click();
+    await fixture.whenStable();
+    http.expectNone((r) => r.method === 'POST');
+    expect(text()).toContain('A number of volts from 0 to 300');
   });
 
   it('adds a limiter step with mains volts, current, a B+ reading and what was seen', async () => {
     const { fixture, loader, text } = await mount(BringUpSection, { set: setDetail({ firstPowerAt: '2026-03-05T10:00:00Z' }) });
-    (await nextRequest(http, '/api/sets/5/bring-up')).flush([]);
+    (await nextRequest(http, '/api/sets/5/bring-up')).flush({ firstPowerAt: '2026-03-05T10:00:00Z', entries: [] });
     await fixture.whenStable();
     expect(text()).toContain('Power is on from here');
     const input = (name: string) => loader.getHarness(MatInputHarness.with({ selector: `[formControlName=${name}]` }));

@@ -175,9 +175,13 @@ export class BringUpSection implements OnInit {
   private load(): void {
     this.loading.set(true);
     this.api.bringUp(this.set().id).subscribe({
-      next: (list) => {
+      next: (log) => {
         this.loading.set(false);
-        this.entries.set(list);
+        this.entries.set(log.entries);
+        if (log.firstPowerAt === null) {
+          this.refused.set(true);
+          this.error.set('The bring-up log starts once "ready for first power" is recorded under Safety gates.');
+        }
       },
       error: (err: unknown) => this.fail(err),
     });
@@ -188,7 +192,7 @@ export class BringUpSection implements OnInit {
     this.busy.set(false);
     const e = apiErrorOf(err);
     if (e.status === 409) this.refused.set(true);
-    this.error.set(e.status === 409 ? `${e.message} Record first power under Safety gates first.` : e.message);
+    this.error.set(e.status === 409 ? `${e.message} Record it under Safety gates first.` : e.message);
   }
 
   protected add(): void {
@@ -197,12 +201,12 @@ export class BringUpSection implements OnInit {
     const mainsVolts = optionalNumber(v.mainsVolts);
     const currentAmps = optionalNumber(v.currentAmps);
     let bad = false;
-    if (Number.isNaN(mainsVolts)) {
-      this.form.controls.mainsVolts.setErrors({ server: 'A number of volts, such as 117.' });
+    if (Number.isNaN(mainsVolts) || (mainsVolts !== null && (mainsVolts < 0 || mainsVolts > 300))) {
+      this.form.controls.mainsVolts.setErrors({ server: 'A number of volts from 0 to 300, such as 117.' });
       bad = true;
     }
-    if (Number.isNaN(currentAmps)) {
-      this.form.controls.currentAmps.setErrors({ server: 'A number of amperes, such as 0.35.' });
+    if (Number.isNaN(currentAmps) || (currentAmps !== null && (currentAmps < 0 || currentAmps > 20))) {
+      this.form.controls.currentAmps.setErrors({ server: 'A number of amperes from 0 to 20, such as 0.35.' });
       bad = true;
     }
     const bPlus: { node: string; volts: number }[] = [];

@@ -60,8 +60,16 @@ describe('GatesSection', () => {
     sign.flush({});
     (await nextRequest(http, '/api/sets/5/gates')).flush(gatesView());
     await fixture.whenStable();
+    // Reopening needs a reason: refused without one, sent with it.
     await (await loader.getHarness(MatButtonHarness.with({ text: /^Reopen/ }))).click();
-    (await nextRequest(http, (r) => r.method === 'POST' && r.url === '/api/sets/5/gates/fuse-in-hot-lead/reopen')).flush({});
+    await fixture.whenStable();
+    http.expectNone((r) => r.url.endsWith('/reopen'));
+    expect((fixture.nativeElement as HTMLElement).querySelector('[role=alert]')?.textContent).toContain('Say why you reopen');
+    await (await loader.getAllHarnesses(MatInputHarness))[1].setValue('fuse holder cracked');
+    await (await loader.getHarness(MatButtonHarness.with({ text: /^Reopen/ }))).click();
+    const reopen = await nextRequest(http, (r) => r.method === 'POST' && r.url === '/api/sets/5/gates/fuse-in-hot-lead/reopen');
+    expect(reopen.request.body).toEqual({ note: 'fuse holder cracked' });
+    reopen.flush({});
     (await nextRequest(http, '/api/sets/5/gates')).flush(gatesView());
   });
 

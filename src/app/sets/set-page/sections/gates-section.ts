@@ -156,6 +156,10 @@ export class GatesSection implements OnInit {
   }
 
   protected reopen(item: GateItem): void {
+    if (this.noteFor(item.key).value.trim() === '') {
+      this.error.set(`Say why you reopen "${item.title}" (in its note).`);
+      return;
+    }
     this.act(this.api.reopenGate(this.set().id, item.key, this.noteFor(item.key).value.trim()), item.key);
   }
 

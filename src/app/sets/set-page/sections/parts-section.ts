@@ -17,7 +17,7 @@ import { showServerError } from '../../../core/errors/server-errors';
 import { FieldErrors } from '../../../shared/field-errors/field-errors';
 import { nominalText } from '../../../templates/template-words';
 import { PARTS_ACTION_LABELS } from '../../set-words';
-import { PartsLineInput, SetsApi } from '../../sets-api';
+import { NewPartInput, PartsLineInput, SetsApi } from '../../sets-api';
 
 /** A number typed in a field, or null when empty; NaN when it is not a number. */
 export function optionalNumber(text: string): number | null {
@@ -259,14 +259,18 @@ export class PartsSection implements OnInit {
       this.form.controls.reason.setErrors({ server: 'Without a prompting reading, give the reason.' });
       return;
     }
-    let newPart: NewPart | null = null;
+    let newPart: NewPartInput | null = null;
     if (v.action === 'replaced') {
       const p = newPartOf(v.newPart);
       if ('error' in p) {
         this.form.get(p.field)?.setErrors({ server: p.error });
         return;
       }
-      newPart = p;
+      if (p.text === '') {
+        this.form.controls.newPart.controls.text.setErrors({ server: 'What was fitted: its value, such as 47k or 0.047 µF.' });
+        return;
+      }
+      newPart = { text: p.text, uF: p.uF, watts: p.watts, volts: p.volts, kind: p.kind, measuredText: p.measuredText };
     }
     const line: PartsLineInput = { componentKey: v.componentKey, action: v.action, newPart, readingId, reason: v.reason.trim(), note: v.note.trim() };
     this.busy.set(true);

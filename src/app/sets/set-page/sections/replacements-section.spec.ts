@@ -4,29 +4,59 @@ import { MatCheckboxHarness } from '@angular/material/checkbox/testing';
 import { clearAuthStorage, nextRequest } from '../../../../testing/http-testing';
 import { configureBed, mount } from '../../testing/section-bed';
 import { setDetail } from '../../testing/set-fixtures';
-import { ReplacementList } from '../../sets-api';
+import { ReplacementsView } from '../../sets-api';
 import { ReplacementsSection } from './replacements-section';
 
-const LIST: ReplacementList = {
-  surveyId: 31,
+const marks = { ordered: false, orderedAt: null, received: false, receivedAt: null };
+const LIST: ReplacementsView = {
+  survey: { id: 31, purpose: 'intake', state: 'complete', startedAt: '2024-03-02T10:00:00Z' },
   order: [
     {
+      ...marks,
       componentKey: 'c-r2',
       ref: 'R2',
-      refs: ['R2', 'R7'],
       kind: 'carbon-composition',
       nominalText: '250 kΩ',
-      suggested: { text: '240 kΩ', ohms: 240000, deviationPct: -4, series: 'E24' },
+      nominalOhms: 250000,
+      valueFrom: 'template',
+      suggested: { ohms: 240000, text: '240 kΩ', code: '240K', series: 'E24', deviationPct: -4, inBand: true },
+      noSuggestion: null,
       watts: 0.5,
-      type: 'carbon film',
+      dissipationWatts: 0.01,
+      type: 'carbon-film',
       voltageWarning: null,
+      warnings: [],
+      evidence: { testPointKey: 'tp-r2', readingId: 103, verdict: 'high', method: 'out-of-circuit' },
+      purchaseKey: '240k-0.5-carbon-film',
       quantity: 2,
-      ordered: false,
-      received: false,
     },
   ],
-  confirm: [{ componentKey: 'c-r1', ref: 'R1', testPointKey: 'tp-r1', readingText: '3M', nominalText: '10 MΩ', verdict: 'low', nextStep: 'lift-a-lead' }],
-  capacitors: [{ componentKey: 'c-c1', ref: 'C1', text: '0.01 µF 400 V paper', ordered: true, received: false }],
+  confirm: [
+    { testPointKey: 'tp-r1', componentKey: 'c-r1', ref: 'R1', nominalText: '10 MΩ', readingText: '3M', from: 'V1.1', to: 'chassis', verdict: 'low', readingId: 101, nextStep: 'lift-a-lead', advice: 'Low in circuit: a parallel path may explain it.' },
+  ],
+  capacitors: [
+    {
+      ...marks,
+      ordered: true,
+      componentKey: 'c-c1',
+      ref: 'C1',
+      text: '0.01 µF 400 V',
+      uF: 0.01,
+      workingVolts: 400,
+      dielectric: 'paper',
+      polarised: false,
+      safetyClass: null,
+      can: null,
+      type: 'film',
+      reason: 'policy',
+      warnings: [],
+      purchaseKey: '0.01-400-film',
+      quantity: 1,
+    },
+  ],
+  purchase: [],
+  series: 'E24',
+  recap: 'standard',
 };
 
 describe('ReplacementsSection', () => {
@@ -50,7 +80,8 @@ describe('ReplacementsSection', () => {
     const { fixture } = await open();
     const el = fixture.nativeElement as HTMLElement;
     const order = el.querySelector('table[aria-label="Parts to order"]')!.textContent!;
-    expect(order).toContain('R2, R7');
+    expect(order).toContain('R2');
+    expect(order).toContain('carbon film');
     expect(order).toContain('240 kΩ');
     expect(order).toContain('−4.0 %');
     expect(order).not.toContain('R1');
@@ -58,6 +89,7 @@ describe('ReplacementsSection', () => {
     expect(confirm).toContain('R1');
     expect(confirm).toContain('low');
     expect(confirm).toContain('Lift a lead and measure the part on its own leads');
+    expect(confirm).toContain('a parallel path may explain it');
   });
 
   it('marks a line ordered, and downloads the CSV', async () => {

@@ -10,7 +10,7 @@ import type { SetDetail } from '@domain/set-format';
 import { apiErrorOf } from '../../../core/errors/api-error';
 import { VerdictBadge } from '../../../shared/verdict-badge/verdict-badge';
 import { NEXT_STEP_LABELS, PURPOSE_LABELS, pctText } from '../../set-words';
-import { ReplacementList, SetsApi, downloadText } from '../../sets-api';
+import { ReplacementsView, SetsApi, downloadText } from '../../sets-api';
 
 /**
  * The replacement list of a survey: what to order (parts out on conclusive evidence, and the
@@ -21,6 +21,7 @@ import { ReplacementList, SetsApi, downloadText } from '../../sets-api';
   selector: 'dm-replacements-section',
   imports: [DatePipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatProgressBarModule, MatSelectModule, VerdictBadge],
   template: `
+    <p class="intro">Qty counts the parts of the same value, wattage and type across the set; the CSV has one line per purchase.</p>
     <div class="inline">
       @if (surveys().length) {
         <mat-form-field subscriptSizing="dynamic">
@@ -51,7 +52,7 @@ import { ReplacementList, SetsApi, downloadText } from '../../sets-api';
             <thead>
               <tr>
                 <th scope="col" class="num">Qty</th>
-                <th scope="col">Parts</th>
+                <th scope="col">Part</th>
                 <th scope="col">Nominal</th>
                 <th scope="col">Suggested value</th>
                 <th scope="col">Rating and type</th>
@@ -60,24 +61,24 @@ import { ReplacementList, SetsApi, downloadText } from '../../sets-api';
               </tr>
             </thead>
             <tbody>
-              @for (o of l.order; track o.componentKey) {
+              @for (o of l.order; track o.componentKey + '/' + o.evidence.readingId) {
                 <tr>
                   <td class="num">{{ o.quantity }}</td>
-                  <th scope="row">{{ (o.refs ?? [o.ref]).join(', ') }}<div class="sub">{{ kindWords(o.kind) }}</div></th>
+                  <th scope="row">{{ o.ref }}<div class="sub">{{ kindWords(o.kind) }}{{ o.valueFrom === 'factory-change' ? ' · value from a factory change' : '' }}</div></th>
                   <td>{{ o.nominalText }}</td>
                   <td>
                     @if (o.suggested; as v) {
-                      {{ v.text }} <span class="sub">({{ pct(v.deviationPct) }}{{ v.series ? ', ' + v.series : '' }})</span>
+                      {{ v.text }} <span class="sub">({{ pct(v.deviationPct) }}, {{ v.series }}{{ v.inBand ? '' : ', outside the band' }})</span>
                     } @else {
-                      <span class="sub">no suggestion for this kind</span>
+                      <span class="sub">{{ o.noSuggestion ?? 'no suggestion for this kind' }}</span>
                     }
                   </td>
                   <td>
-                    {{ o.watts !== null ? o.watts + ' W' : '' }} {{ o.type }}
+                    {{ o.watts !== null ? o.watts + ' W' : '' }} {{ kindWords(o.type) }}
                     @if (o.voltageWarning) {
                       <div class="warn"><mat-icon aria-hidden="true" class="small">warning</mat-icon> {{ o.voltageWarning }}</div>
                     }
-                    @for (n of o.notes ?? []; track $index) {
+                    @for (n of o.warnings; track $index) {
                       <div class="sub">{{ n }}</div>
                     }
                   </td>
@@ -97,13 +98,22 @@ import { ReplacementList, SetsApi, downloadText } from '../../sets-api';
         <div class="table-wrap">
           <table class="plain" aria-label="Capacitors to replace by policy">
             <thead>
-              <tr><th scope="col">Part</th><th scope="col">Value</th><th scope="col">Ordered</th><th scope="col">Received</th></tr>
+              <tr><th scope="col">Part</th><th scope="col">Value and type</th><th scope="col" class="num">Qty</th><th scope="col">Ordered</th><th scope="col">Received</th></tr>
             </thead>
             <tbody>
               @for (c of l.capacitors; track c.componentKey) {
                 <tr>
                   <th scope="row">{{ c.ref }}</th>
-                  <td>{{ c.text }}{{ c.safetyClass ? ' · class ' + c.safetyClass : '' }}</td>
+                  <td>
+                    {{ c.text }} · {{ kindWords(c.type) }}{{ c.can ? ' · ' + c.can : '' }}
+                    @if (c.reason === 'reading') {
+                      <div class="sub">found out by a reading</div>
+                    }
+                    @for (w of c.warnings; track $index) {
+                      <div class="warn"><mat-icon aria-hidden="true" class="small">warning</mat-icon> {{ w }}</div>
+                    }
+                  </td>
+                  <td class="num">{{ c.quantity }}</td>
                   <td><mat-checkbox [checked]="c.ordered" [disabled]="busy()" (change)="mark(c.componentKey, $event.checked, c.received)">Ordered<span class="cdk-visually-hidden"> {{ c.ref }}</span></mat-checkbox></td>
                   <td><mat-checkbox [checked]="c.received" [disabled]="busy()" (change)="mark(c.componentKey, c.ordered, $event.checked)">Received<span class="cdk-visually-hidden"> {{ c.ref }}</span></mat-checkbox></td>
                 </tr>
@@ -124,7 +134,10 @@ import { ReplacementList, SetsApi, downloadText } from '../../sets-api';
               <strong>{{ c.ref }}</strong>
               <dm-verdict-badge [verdict]="c.verdict" />
               {{ c.readingText ? 'read ' + c.readingText : '' }}{{ c.nominalText ? ', nominal ' + c.nominalText : '' }}
-              <div class="next"><mat-icon aria-hidden="true" class="small">arrow_forward</mat-icon> Next step: {{ c.nextStep ? nextSteps[c.nextStep] : 'measure it again' }}</div>
+              <div class="next"><mat-icon aria-hidden="true" class="small">arrow_forward</mat-icon> Next step: {{ nextSteps[c.nextStep] }}</div>
+              @if (c.advice) {
+                <div class="sub">{{ c.advice }}</div>
+              }
             </li>
           }
         </ul>
@@ -150,7 +163,7 @@ export class ReplacementsSection implements OnInit {
   protected readonly kindWords = (k: string) => k.replace(/-/g, ' ');
   protected readonly surveys = computed(() => [...this.set().surveys].sort((a, b) => b.startedAt.localeCompare(a.startedAt)));
   protected readonly surveyId = signal<number | null>(null);
-  protected readonly list = signal<ReplacementList | null>(null);
+  protected readonly list = signal<ReplacementsView | null>(null);
   protected readonly loading = signal(true);
   protected readonly busy = signal(false);
   protected readonly error = signal<string | null>(null);
