@@ -32,9 +32,11 @@ import type { Outbox } from '../api/mail/outbox';
 import { createTemplate, publish, share } from '../api/templates/templates.use-cases';
 import { portInUse, startCluster, stopCluster, type Cluster } from '../scripts/cluster';
 import { runMigrations } from '../scripts/migrate';
+import { APP_DIST, buildApp } from '../scripts/app-build';
 import { ChassisBuilder } from '../seeds/chassis/builder';
 import { DEMO_DIGITAL_METER } from '../seeds/sets';
 import { DEMO_PASSWORD, seedDemo } from '../seeds/seed';
+import { keyToVerdict } from './grid-browser';
 import { stopChild } from './lib/child';
 import { mulberry32 } from './lib/prng';
 import { progress, quantile, round, type Figure } from './lib/stats';
@@ -216,41 +218,42 @@ async function captureSave(clusterUrl: string, surveyId: number, testPointKey: s
   const server = createServer(app);
   await new Promise<void>((r) => server.listen(0, '127.0.0.1', () => r()));
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  let restore = (): void => undefined;
   try {
     const signIn = await fetch(`${base}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: userEmail, password: DEMO_PASSWORD }) });
     const { accessToken } = (await signIn.json()) as { accessToken: string };
+    // A first save warms this process (the survey's grid, as on a server that has served the survey before).
+    const warm = await fetch(`${base}/api/surveys/${surveyId}/readings`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', authorization: `Bearer ${accessToken}` },
+      body: JSON.stringify({ testPointKey, clientKey: clientKey(), text: '4k7' }),
+    });
+    if (warm.status !== 201) throw new Error(`capture: the warm-up save answered ${warm.status}: ${(await warm.text()).slice(0, 300)}`);
+    // Every statement any pg client of this process sends during the next save (the server is in-process).
     const seen: { text: string; values: unknown[] }[] = [];
-    const original = database.pool.query.bind(database.pool);
     const key = clientKey();
-    (database.pool as unknown as { query: unknown }).query = (...args: unknown[]) => {
+    const proto = pg.Client.prototype as unknown as { query: (...a: unknown[]) => unknown };
+    const original = proto.query;
+    proto.query = function (this: unknown, ...args: unknown[]) {
       const [q, v] = args as [string | { text: string; values?: unknown[] }, unknown[] | undefined];
       const text = typeof q === 'string' ? q : q.text;
-      const values = (typeof q === 'string' ? v : q.values) ?? [];
+      const values = (typeof q === 'string' ? v : (q.values ?? v)) ?? [];
       seen.push({ text, values: [...values] });
-      return (original as (...a: unknown[]) => unknown)(...args);
+      return original.apply(this, args);
     };
-    // Drizzle and the guards take clients from the pool: wrap connect too.
-    const originalConnect = database.pool.connect.bind(database.pool);
-    (database.pool as unknown as { connect: unknown }).connect = async () => {
-      const client = await originalConnect();
-      const cq = client.query.bind(client);
-      (client as unknown as { query: unknown }).query = (...args: unknown[]) => {
-        const [q, v] = args as [string | { text: string; values?: unknown[] }, unknown[] | undefined];
-        const text = typeof q === 'string' ? q : q.text;
-        const values = (typeof q === 'string' ? v : q.values) ?? [];
-        seen.push({ text, values: [...values] });
-        return (cq as (...a: unknown[]) => unknown)(...args);
-      };
-      return client;
+    restore = () => {
+      proto.query = original;
     };
     const r = await fetch(`${base}/api/surveys/${surveyId}/readings`, {
       method: 'POST',
       headers: { 'content-type': 'application/json', authorization: `Bearer ${accessToken}` },
       body: JSON.stringify({ testPointKey, clientKey: key, text: '4k7' }),
     });
+    restore();
     if (r.status !== 201) throw new Error(`capture: the save answered ${r.status}: ${(await r.text()).slice(0, 300)}`);
     return { statements: seen, key };
   } finally {
+    restore();
     server.close();
     await database.close();
     rmSync(dataDir, { recursive: true, force: true });
@@ -269,7 +272,7 @@ async function pgLoop(url: string, statements: { text: string; values: unknown[]
       while (performance.now() < until) {
         const fresh = clientKey();
         const t0 = performance.now();
-        for (const s of statements) await client.query(s.text, replace(s.values, fresh));
+        for (const s of statements) await client.query(s.text, replace(s.values, fresh) as unknown[]);
         latencies.push(performance.now() - t0);
       }
     } finally {
@@ -342,15 +345,18 @@ export async function runSurvey(emit: (f: Figure) => void, opts: { freshScaled?:
     const ohms = doc.testPoints.map((p) => (p.kind === 'component-check' ? (nominal.get(p.componentKey) ?? 0) : 0));
     await pool.query(
       `INSERT INTO readings (survey_id, test_point_key, client_key, text, state, ohms, method, entered_by)
-       SELECT $1, p.key, 'open-' || $1 || '-' || p.ord, round(p.nominal * 0.6)::text, 'value', round(p.nominal * 0.6), 'in-circuit', $4
+       SELECT $1::int, p.key, 'open-' || $1::int || '-' || p.ord, round(p.nominal * 0.6)::text, 'value', round(p.nominal * 0.6), 'in-circuit', $4
        FROM unnest($2::text[], $3::float8[]) WITH ORDINALITY AS p(key, nominal, ord)`,
       [openId, keys, ohms, techId],
     );
     const saveId = await newSurvey();
+    const keyId = await newSurvey();
+    progress('survey: the app build (only when stale), for the browser figure');
+    buildApp(progress);
 
     child = fork(join(HERE, 'api-server.ts'), [], {
       execArgv: ['--import', 'tsx'],
-      env: { ...process.env, BENCH_DATABASE_URL: cluster.url, BENCH_JWT_SECRET: randomBytes(36).toString('base64url'), BENCH_APP_DATA_DIR: mk('survey-data'), BENCH_APP_DIST_DIR: mk('survey-dist') },
+      env: { ...process.env, BENCH_DATABASE_URL: cluster.url, BENCH_JWT_SECRET: randomBytes(36).toString('base64url'), BENCH_APP_DATA_DIR: mk('survey-data'), BENCH_APP_DIST_DIR: APP_DIST },
       stdio: ['ignore', 'ignore', 'inherit', 'ipc'],
     });
     const c = child;
@@ -441,6 +447,9 @@ export async function runSurvey(emit: (f: Figure) => void, opts: { freshScaled?:
       latencyAverageMs: bare?.latencyMs ?? null,
       note: bare ? 'pgbench, 32 clients, one single-row INSERT per transaction: the physical limit, for information' : 'pgbench not found beside the PostgreSQL binaries',
     });
+
+    // --- Key press to verdict shown, in Chromium.
+    await keyToVerdict(emit, { url, email: TECH_EMAIL, password: DEMO_PASSWORD, surveyId: keyId });
   } finally {
     await stopChild(child);
     if (pool) await pool.end().catch(() => undefined);

@@ -250,12 +250,7 @@ export async function surveyViewOf(tx: Tx, survey: repo.SurveyRow, access: SetAc
   let previous: SurveyView['previous'] = null;
   if (earlier.length) {
     const prev = earlier[earlier.length - 1];
-    const prevReadings = await repo.readingsOf(tx, prev.id);
-    previous = {
-      surveyId: prev.id,
-      startedAt: prev.createdAt.toISOString(),
-      readings: [...currentReadings(prevReadings).values()].sort((a, b) => a.id - b.id).map((r) => ({ testPointKey: r.testPointKey, text: r.text, state: r.state, ohms: r.ohms })),
-    };
+    previous = { surveyId: prev.id, startedAt: prev.createdAt.toISOString(), readings: await repo.currentValuesOf(tx, prev.id) };
   }
 
   const meter = survey.meter as repo.MeterSnapshot | null;

@@ -118,10 +118,39 @@ export function readingRecordOf(r: ReadingRow): ReadingRecord {
   };
 }
 
-/** A survey's readings in the order they were stored. */
+/**
+ * A survey's readings in the order they were stored, as the wire records. Built as one JSON
+ * document by PostgreSQL (timestamps already in ISO 8601): a 400-reading survey crosses as one
+ * value instead of 400 rows of 18 typed columns, which the survey view's speed target needs.
+ */
 export async function readingsOf(tx: Tx, surveyId: number): Promise<ReadingRecord[]> {
-  const rows = await tx.select(readingColumns).from(readings).leftJoin(enteredByUser, eq(enteredByUser.id, readings.enteredBy)).where(eq(readings.surveyId, surveyId)).orderBy(asc(readings.id));
-  return rows.map((r) => readingRecordOf(r as ReadingRow));
+  const r = await tx.execute<{ list: ReadingRecord[] | null }>(sql`
+    SELECT json_agg(json_build_object(
+      'id', r.id, 'testPointKey', r.test_point_key, 'clientKey', r.client_key, 'followsReadingId', r.follows_reading_id,
+      'text', r.text, 'state', r.state, 'ohms', r.ohms, 'method', r.method, 'liftedEnd', r.lifted_end, 'rangeIndex', r.range_index,
+      'note', r.note, 'prediction', r.prediction,
+      'enteredBy', CASE WHEN r.entered_by IS NULL THEN NULL ELSE json_build_object('id', r.entered_by, 'name', coalesce(u.name, '')) END,
+      'takenAt', to_char(r.taken_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"'),
+      'version', r.version,
+      'updatedAt', to_char(r.updated_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')
+    ) ORDER BY r.id) AS list
+    FROM readings r LEFT JOIN users u ON u.id = r.entered_by
+    WHERE r.survey_id = ${surveyId}`);
+  return r.rows[0]?.list ?? [];
+}
+
+/** The current value of each test point of a survey (the newest reading no follow-up supersedes), in stored order. */
+export async function currentValuesOf(tx: Tx, surveyId: number): Promise<{ testPointKey: string; text: string; state: ReadingState; ohms: number | null }[]> {
+  const r = await tx.execute<{ list: { testPointKey: string; text: string; state: ReadingState; ohms: number | null }[] | null }>(sql`
+    SELECT json_agg(json_build_object('testPointKey', c.test_point_key, 'text', c.text, 'state', c.state, 'ohms', c.ohms) ORDER BY c.id) AS list
+    FROM (
+      SELECT DISTINCT ON (r.test_point_key) r.id, r.test_point_key, r.text, r.state, r.ohms
+      FROM readings r
+      WHERE r.survey_id = ${surveyId}
+        AND NOT EXISTS (SELECT 1 FROM readings f WHERE f.survey_id = r.survey_id AND f.follows_reading_id = r.id)
+      ORDER BY r.test_point_key, r.id DESC
+    ) c`);
+  return r.rows[0]?.list ?? [];
 }
 
 /** The readings of several surveys (one query), by survey id. */
