@@ -44,6 +44,7 @@ async function surveyOfSet(tx: Tx, set: SetRow, surveyId: number | undefined): P
 
 export interface ReplacementsView extends ReplacementList {
   setId: number;
+  surveyId: number | null;
   /** The survey the list is drawn from (the newest unless asked), or null when the set has none yet. */
   survey: { id: number; purpose: string; state: string; startedAt: string } | null;
 }
@@ -107,7 +108,7 @@ export async function getReplacements(ctx: Deps, user: Actor, setId: number, q: 
     marks: await repo.marksOf(db, set.id),
     capacitorWarnings,
   });
-  return { setId: set.id, survey: survey ? { id: survey.id, purpose: survey.purpose, state: survey.state, startedAt: survey.createdAt.toISOString() } : null, ...list };
+  return { setId: set.id, surveyId: survey?.id ?? null, survey: survey ? { id: survey.id, purpose: survey.purpose, state: survey.state, startedAt: survey.createdAt.toISOString() } : null, ...list };
 }
 
 export { replacementCsv };

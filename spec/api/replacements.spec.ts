@@ -29,6 +29,7 @@ describe('Replacement list', () => {
     const r = await request(env.app).get(`/api/sets/${s.setId}/replacements`).set(bearer(tech));
     expect(r.status).toBe(200);
     expect(r.body.survey.id).toBe(s.id);
+    expect(r.body.surveyId).toBe(s.id);
     expect(r.body.order.length).toBe(1);
     const line = r.body.order[0];
     expect(line).toEqual(
