@@ -70,10 +70,7 @@ export interface SurveyCompare {
 
 /** GET /api/sets/:id/record: everything the printable record shows. */
 export interface SetRecordView {
-  readonly set: Pick<
-    SetDetail,
-    'id' | 'label' | 'accessionNumber' | 'customer' | 'serial' | 'restorationLevel' | 'jobStatus' | 'condition' | 'complaint' | 'intakeNotes' | 'deviations' | 'owner' | 'firstPowerAt'
-  > & { readonly template: SetDetail['template'] };
+  readonly set: SetDetail;
   /** Each survey as the grid reads it (readings, evaluations, amendments). */
   readonly surveys: readonly SurveyView[];
   readonly partsRecord: readonly PartsRecordLine[];
@@ -94,19 +91,15 @@ export interface ProvenanceLabel {
   readonly revokedAt: string | null;
 }
 
-/** GET /api/sets/:id/labels */
-export interface LabelsView {
-  readonly publicBaseUrl: string | null;
-  readonly labels: readonly ProvenanceLabel[];
-}
-
 /** GET /api/public/labels/:token: read-only, without owner identity. */
 export interface PublicRecord {
   readonly chassis: { readonly maker: string; readonly model: string; readonly chassisNumber: string; readonly yearFrom: number | null; readonly yearTo: number | null };
   readonly serial: string;
   readonly restorationLevel?: string;
-  readonly surveys: readonly { readonly purpose: SurveyPurpose; readonly state?: string; readonly startedAt: string; readonly completedAt?: string | null; readonly counts: VerdictCounts }[];
-  readonly partsReplaced: readonly { readonly ref: string; readonly value: string; readonly at: string }[];
+  /** Complete surveys, oldest first; `date`: completed (else started). */
+  readonly surveys: readonly { readonly purpose: SurveyPurpose; readonly state?: string; readonly date: string; readonly startedAt?: string; readonly completedAt?: string | null; readonly counts: VerdictCounts }[];
+  /** `text`: the new part's value as recorded; `date`: when the line was recorded. */
+  readonly partsReplaced: readonly { readonly ref: string; readonly text: string; readonly date: string }[];
   readonly firstPowerAt: string | null;
   /** Gate items signed: titles and dates only, no names. */
   readonly gatesSigned?: readonly { readonly title: string; readonly at: string }[];
@@ -129,12 +122,6 @@ export interface PartsLineInput {
 export interface PartsLineSaved {
   readonly line?: PartsRecordLine;
   readonly warnings?: readonly { readonly code?: string; readonly severity?: 'error' | 'warning'; readonly message: string }[];
-}
-
-/** GET /api/sets/:id/bring-up */
-export interface BringUpLog {
-  readonly firstPowerAt: string | null;
-  readonly entries: readonly BringUpEntry[];
 }
 
 export interface BringUpInput {
@@ -244,9 +231,9 @@ export class SetsApi {
     return this.http.post<GatesView>(`/api/sets/${id}/first-power`, { note }, { context: formErrors() });
   }
 
-  /** The log and whether first power is recorded (the log is refused before it). */
-  bringUp(id: number): Observable<BringUpLog> {
-    return this.http.get<BringUpLog>(`/api/sets/${id}/bring-up`);
+  /** The log, oldest step first (refused to add to before first power is recorded). */
+  bringUp(id: number): Observable<BringUpEntry[]> {
+    return this.http.get<unknown>(`/api/sets/${id}/bring-up`).pipe(map((answer) => listIn<BringUpEntry>(answer, 'entries')));
   }
   addBringUp(id: number, entry: BringUpInput): Observable<BringUpEntry> {
     return this.http.post<BringUpEntry>(`/api/sets/${id}/bring-up`, entry, { context: formErrors() });
@@ -287,8 +274,9 @@ export class SetsApi {
     return this.http.get<SetRecordView>(`/api/sets/${id}/record`, { context: callerHandles(404) });
   }
 
-  labels(id: number): Observable<LabelsView> {
-    return this.http.get<LabelsView>(`/api/sets/${id}/labels`);
+  /** Newest first; a revoked label keeps its dates, not its token. */
+  labels(id: number): Observable<ProvenanceLabel[]> {
+    return this.http.get<unknown>(`/api/sets/${id}/labels`).pipe(map((answer) => listIn<ProvenanceLabel>(answer, 'labels')));
   }
   /** 409 `public-base-url-missing` while the instance has no PUBLIC_BASE_URL. */
   createLabel(id: number): Observable<ProvenanceLabel> {

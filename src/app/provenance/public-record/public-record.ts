@@ -45,7 +45,7 @@ type Loaded = { state: 'loading' } | { state: 'ok'; value: PublicRecord } | { st
         @if (r.surveys.length) {
           <ul>
             @for (s of r.surveys; track $index) {
-              <li><strong>{{ purposes[s.purpose] ?? s.purpose }}, {{ s.startedAt | date: 'mediumDate' }}</strong>: {{ counts(s.counts) }}</li>
+              <li><strong>{{ purposes[s.purpose] ?? s.purpose }}, {{ s.date | date: 'mediumDate' }}</strong>: {{ counts(s.counts) }}</li>
             }
           </ul>
         } @else {
@@ -55,7 +55,7 @@ type Loaded = { state: 'loading' } | { state: 'ok'; value: PublicRecord } | { st
         @if (r.partsReplaced.length) {
           <ul>
             @for (p of r.partsReplaced; track $index) {
-              <li>{{ p.ref }}{{ p.value ? ': ' + p.value : '' }} ({{ p.at | date: 'mediumDate' }})</li>
+              <li>{{ p.ref }}{{ p.text ? ': ' + p.text : '' }} ({{ p.date | date: 'mediumDate' }})</li>
             }
           </ul>
         } @else {

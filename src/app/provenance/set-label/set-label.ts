@@ -67,8 +67,9 @@ export class SetLabel {
           return;
         }
         this.set.set(a.value.set);
-        this.labels.set(a.value.labels.labels);
-        this.baseUrlSet.set(a.value.labels.publicBaseUrl !== null);
+        this.labels.set(a.value.labels);
+        // A label that is not revoked but has no link: the instance lost its PUBLIC_BASE_URL.
+        this.baseUrlSet.set(!a.value.labels.some((l) => !l.revokedAt && l.url === null));
       });
 
     effect(() => {

@@ -10,13 +10,13 @@ import { Auth } from '../../core/auth/auth';
 import { authToken } from '../../core/http/auth-token';
 import { httpErrors } from '../../core/http/http-errors';
 
-/** Spec helper: TestBed with the app's interceptors, stubbed HTTP and a signed-in technician (account 7). */
-export function configureBed(roles: Parameters<typeof sessionFor>[0] = ['technician']): HttpTestingController {
+/** Spec helper: TestBed with the app's interceptors, stubbed HTTP and a signed-in technician (account 7); `null`: nobody signed in. */
+export function configureBed(roles: Parameters<typeof sessionFor>[0] | null = ['technician']): HttpTestingController {
   clearAuthStorage();
   TestBed.configureTestingModule({
     providers: [provideRouter([]), provideHttpClient(withInterceptors([httpErrors, authToken])), provideHttpClientTesting()],
   });
-  TestBed.inject(Auth).begin(sessionFor(roles, 1, 7));
+  if (roles) TestBed.inject(Auth).begin(sessionFor(roles, 1, 7));
   return TestBed.inject(HttpTestingController);
 }
 

@@ -17,15 +17,15 @@ describe('BringUpSection', () => {
 
   it('offers no form before first power is recorded, and says where to record it', async () => {
     const { fixture, text } = await mount(BringUpSection, { set: setDetail() });
-    (await nextRequest(http, '/api/sets/5/bring-up')).flush({ firstPowerAt: null, entries: [] });
+    (await nextRequest(http, '/api/sets/5/bring-up')).flush([]);
     await fixture.whenStable();
     expect(text()).toContain('once "ready for first power" is recorded under Safety gates');
     expect((fixture.nativeElement as HTMLElement).querySelector('form')).toBeNull();
   });
 
   it('shows the refusal of a step the API will not log (409)', async () => {
-    const { fixture, loader, text } = await mount(BringUpSection, { set: setDetail() });
-    (await nextRequest(http, '/api/sets/5/bring-up')).flush({ firstPowerAt: '2026-03-05T10:00:00Z', entries: [] });
+    const { fixture, loader, text } = await mount(BringUpSection, { set: setDetail({ firstPowerAt: '2026-03-05T10:00:00Z' }) });
+    (await nextRequest(http, '/api/sets/5/bring-up')).flush([]);
     await fixture.whenStable();
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Add to the log' }))).click();
     (await nextRequest(http, (r) => r.method === 'POST' && r.url === '/api/sets/5/bring-up')).flush(
@@ -38,8 +38,8 @@ describe('BringUpSection', () => {
   });
 
   it('refuses mains volts beyond 300 before sending', async () => {
-    const { fixture, loader, text } = await mount(BringUpSection, { set: setDetail() });
-    (await nextRequest(http, '/api/sets/5/bring-up')).flush({ firstPowerAt: '2026-03-05T10:00:00Z', entries: [] });
+    const { fixture, loader, text } = await mount(BringUpSection, { set: setDetail({ firstPowerAt: '2026-03-05T10:00:00Z' }) });
+    (await nextRequest(http, '/api/sets/5/bring-up')).flush([]);
     await fixture.whenStable();
     await (await loader.getHarness(MatInputHarness.with({ selector: '[formControlName=mainsVolts]' }))).setValue('2400');
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Add to the log' }))).click();
@@ -50,7 +50,7 @@ describe('BringUpSection', () => {
 
   it('adds a limiter step with mains volts, current, a B+ reading and what was seen', async () => {
     const { fixture, loader, text } = await mount(BringUpSection, { set: setDetail({ firstPowerAt: '2026-03-05T10:00:00Z' }) });
-    (await nextRequest(http, '/api/sets/5/bring-up')).flush({ firstPowerAt: '2026-03-05T10:00:00Z', entries: [] });
+    (await nextRequest(http, '/api/sets/5/bring-up')).flush([]);
     await fixture.whenStable();
     expect(text()).toContain('Power is on from here');
     const input = (name: string) => loader.getHarness(MatInputHarness.with({ selector: `[formControlName=${name}]` }));

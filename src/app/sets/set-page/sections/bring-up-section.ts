@@ -175,10 +175,10 @@ export class BringUpSection implements OnInit {
   private load(): void {
     this.loading.set(true);
     this.api.bringUp(this.set().id).subscribe({
-      next: (log) => {
+      next: (entries) => {
         this.loading.set(false);
-        this.entries.set(log.entries);
-        if (log.firstPowerAt === null) {
+        this.entries.set(entries);
+        if (this.set().firstPowerAt === null) {
           this.refused.set(true);
           this.error.set('The bring-up log starts once "ready for first power" is recorded under Safety gates.');
         }

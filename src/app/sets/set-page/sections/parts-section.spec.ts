@@ -51,7 +51,7 @@ describe('PartsSection', () => {
 
   it('refuses a line with neither a prompting reading nor a reason, then records a replacement and shows the capacitor findings', async () => {
     const { fixture, loader, text } = await mount(PartsSection, { set: setDetail(), doc: sampleDocument() });
-    (await nextRequest(http, '/api/sets/5/parts-record')).flush({ lines: [], current: {} });
+    (await nextRequest(http, '/api/sets/5/parts-record')).flush([]);
     await fixture.whenStable();
     expect(text()).toContain('Nothing recorded yet.');
     const component = await loader.getHarness(MatSelectHarness.with({ selector: '[formControlName=componentKey]' }));
@@ -72,9 +72,9 @@ describe('PartsSection', () => {
       jasmine.objectContaining({ componentKey: 'c-r2', action: 'replaced', readingId: 103, newPart: { text: '270k', uF: null, watts: 1, volts: null, kind: '', measuredText: '' } }),
     );
     req.flush({ line: null, warnings: [{ code: 'volts', severity: 'warning', message: 'Working voltage below the B+ at this point.' }] });
-    (await nextRequest(http, '/api/sets/5/parts-record')).flush({ current: {}, lines: [
+    (await nextRequest(http, '/api/sets/5/parts-record')).flush([
       { id: 1, componentKey: 'c-r2', componentRef: 'R2', action: 'replaced', newPart: { text: '270k', ohms: 270000, uF: null, watts: 1, volts: null, kind: '', measuredText: '', measuredOhms: null }, readingId: 103, reason: '', note: '', recordedBy: ADA, createdAt: '2026-03-02T10:00:00Z' },
-    ] });
+    ]);
     await fixture.whenStable();
     expect(text()).toContain('Working voltage below the B+ at this point.');
     expect(text()).toContain('prompted by a reading');
