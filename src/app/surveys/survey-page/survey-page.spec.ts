@@ -18,6 +18,16 @@ describe('SurveyPage', () => {
   let http: HttpTestingController;
   let el: HTMLElement;
   let dbName: string;
+  let timeout: number;
+
+  // Each spec goes through IndexedDB a few times: on a busy shared machine 5 s can run out.
+  beforeAll(() => {
+    timeout = jasmine.DEFAULT_TIMEOUT_INTERVAL;
+    jasmine.DEFAULT_TIMEOUT_INTERVAL = 15000;
+  });
+  afterAll(() => {
+    jasmine.DEFAULT_TIMEOUT_INTERVAL = timeout;
+  });
 
   beforeEach(() => {
     clearAuthStorage();
