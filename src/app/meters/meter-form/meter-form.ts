@@ -88,7 +88,7 @@ export class MeterForm {
   protected readonly problems = signal<readonly string[]>([]);
 
   protected readonly form = this.fb.group({
-    name: ['', [Validators.required, Validators.maxLength(120)]],
+    name: ['', [Validators.required, Validators.maxLength(80)]],
     kind: this.fb.control<'digital' | 'analogue'>('digital'),
     autorange: [false],
     lead: ['', ohmsTextValidator({ allowZero: true })],
@@ -208,7 +208,7 @@ export class MeterForm {
       fullScale: [r.fullScale, [Validators.required, ohmsTextValidator()]],
       resolution: [r.resolution, [Validators.required, ohmsTextValidator()]],
       pct: [r.pct, [Validators.required, numberTextValidator(0, 100, '% of reading')]],
-      counts: [r.counts, [Validators.required, numberTextValidator(0, 100000, 'counts')]],
+      counts: [r.counts, [Validators.required, numberTextValidator(0, 1000, 'counts')]],
     });
   }
   private analogueRow(r: { centre: string; arcPct: string }): AnalogueRow {

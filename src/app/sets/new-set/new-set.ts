@@ -41,9 +41,9 @@ export class NewSet {
   protected readonly form = this.fb.group({
     templateId: this.fb.control<number | null>(null, Validators.required),
     label: ['', [Validators.required, Validators.maxLength(200)]],
-    accessionNumber: ['', Validators.maxLength(100)],
+    accessionNumber: ['', Validators.maxLength(80)],
     customer: ['', Validators.maxLength(200)],
-    serial: ['', Validators.maxLength(100)],
+    serial: ['', Validators.maxLength(80)],
     jobStatus: this.fb.control<JobStatus>('intake'),
     restorationLevel: this.fb.control<RestorationLevel>('repair'),
     condition: [''],
