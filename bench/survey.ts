@@ -30,7 +30,7 @@ import { createDatabase, type Database } from '../api/db';
 import type { TemplateDocument } from '../api/domain/template-format';
 import type { Outbox } from '../api/mail/outbox';
 import { createTemplate, publish, share } from '../api/templates/templates.use-cases';
-import { portInUse, startCluster, stopCluster, type Cluster } from '../scripts/cluster';
+import { findPgBin, portInUse, startCluster, stopCluster, type Cluster } from '../scripts/cluster';
 import { runMigrations } from '../scripts/migrate';
 import { APP_DIST, buildApp } from '../scripts/app-build';
 import { ChassisBuilder } from '../seeds/chassis/builder';
@@ -104,14 +104,16 @@ async function scaledDatabase(fresh: boolean): Promise<{ cluster: Cluster; built
   const marker = join(dir, 'seed-version');
   const want = `${SCALED_VERSION} ${JSON.stringify(SCALED)} ${migrationTag()}`;
   const reuse = !fresh && existsSync(marker) && readFileSync(marker, 'utf8') === want;
-  if (!reuse && existsSync(dir)) {
+  // A cluster left running in the folder (an interrupted run) is stopped first: it is started again on a free port.
+  const binDir = findPgBin();
+  if (binDir && existsSync(join(dir, 'pg', 'postmaster.pid'))) {
     try {
-      stopCluster({ pgDir: join(dir, 'pg'), binDir: '' as string });
+      stopCluster({ pgDir: join(dir, 'pg'), binDir }, 'fast');
     } catch {
       /* not running */
     }
-    rmSync(dir, { recursive: true, force: true });
   }
+  if (!reuse && existsSync(dir)) rmSync(dir, { recursive: true, force: true });
   mkdirSync(dir, { recursive: true });
   let port = FIRST_PORT;
   while (await portInUse(port)) port++;

@@ -271,3 +271,33 @@ export function linkIn(mail: CapturedMail): URL {
 export async function shot(page: Page, name: string): Promise<void> {
   await page.screenshot({ path: join(SHOTS_DIR, `${name}.png`), fullPage: true });
 }
+
+/**
+ * Waits until the worker controls the page and its app-shell cache holds every file of its
+ * manifest's "app-shell" group (read from the worker's own store, so a rebuild of dist/ during
+ * the run cannot confuse the check).
+ */
+export async function shellCached(page: Page): Promise<void> {
+  const end = Date.now() + 45_000;
+  let missing: string[] = ['(not checked)'];
+  while (Date.now() < end) {
+    // page.evaluate awaits the promise (waitForFunction would take the pending promise as truthy).
+    missing = await page.evaluate(async () => {
+      if (!navigator.serviceWorker?.controller) return ['(no controlling worker)'];
+      const state = await fetch('/ngsw/state').then((r) => r.text(), () => '');
+      const hash = /Latest manifest hash: ([0-9a-f]{40})/.exec(state)?.[1];
+      if (!hash || !state.includes(`=== Version ${hash} ===`)) return ['(no version)'];
+      const control = await (await caches.open('ngsw:/:db:control')).match('/manifests');
+      const manifests = control ? ((await control.json()) as Record<string, { assetGroups?: { name: string; urls: string[] }[] }>) : {};
+      const urls = manifests[hash]?.assetGroups?.find((g) => g.name === 'app-shell')?.urls ?? [];
+      if (urls.length < 3) return ['(no app-shell group in the manifest)'];
+      const name = (await caches.keys()).find((n) => n.endsWith(`${hash}:assets:app-shell:cache`));
+      if (!name) return ['(no app-shell cache)'];
+      const cached = new Set((await (await caches.open(name)).keys()).map((req) => new URL(req.url).pathname));
+      return urls.filter((u) => !cached.has(u));
+    });
+    if (missing.length === 0) return;
+    await page.waitForTimeout(250);
+  }
+  throw new Error(`the service worker did not cache the app shell; missing: ${missing.join(', ')}`);
+}
