@@ -1,6 +1,6 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { Observable } from 'rxjs';
+import { Observable, map } from 'rxjs';
 import type { MeterProfile } from '@domain/meter';
 import type { MeterCheckKind, MeterProfileRecord } from '@domain/set-format';
 import { callerHandles } from '../core/errors/api-error';
@@ -22,9 +22,12 @@ const formErrors = () => callerHandles(400, 409);
 export class MetersApi {
   private readonly http = inject(HttpClient);
 
+  /** The caller's profiles (`{ items }` from the API). */
   list(includeArchived = false): Observable<MeterProfileRecord[]> {
     const params = includeArchived ? new HttpParams().set('archived', 'true') : undefined;
-    return this.http.get<MeterProfileRecord[]>('/api/meter-profiles', { params });
+    return this.http
+      .get<{ items: MeterProfileRecord[] } | MeterProfileRecord[]>('/api/meter-profiles', { params })
+      .pipe(map((answer) => (Array.isArray(answer) ? answer : (answer?.items ?? []))));
   }
   get(id: number): Observable<MeterProfileRecord> {
     return this.http.get<MeterProfileRecord>(`/api/meter-profiles/${id}`, { context: callerHandles(404) });

@@ -202,14 +202,15 @@ export class SetsApi {
   }
 
   surveys(id: number): Observable<SurveySummary[]> {
-    return this.http.get<SurveySummary[]>(`/api/sets/${id}/surveys`);
+    return this.http.get<unknown>(`/api/sets/${id}/surveys`).pipe(map((answer) => listIn<SurveySummary>(answer, 'items')));
   }
   startSurvey(id: number, start: SurveyStart): Observable<SurveyView> {
     return this.http.post<SurveyView>(`/api/sets/${id}/surveys`, start, { context: formErrors() });
   }
 
+  /** The set's lifted leads (`{ items }` from the API). */
   liftedLeads(id: number): Observable<LiftedLeadRecord[]> {
-    return this.http.get<LiftedLeadRecord[]>(`/api/sets/${id}/lifted-leads`);
+    return this.http.get<unknown>(`/api/sets/${id}/lifted-leads`).pipe(map((answer) => listIn<LiftedLeadRecord>(answer, 'items')));
   }
   resolder(id: number, leadId: number, note: string, recheckReadingId: number | null = null): Observable<LiftedLeadRecord> {
     const body = recheckReadingId === null ? { note } : { note, recheckReadingId };

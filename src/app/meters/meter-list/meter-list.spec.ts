@@ -18,7 +18,7 @@ describe('MeterList', () => {
     const { fixture, loader, text } = await mount(MeterList, {});
     const first = await nextRequest(http, (r) => r.url === '/api/meter-profiles');
     expect(first.request.params.has('archived')).toBeFalse();
-    first.flush([meterRecord(), meterRecord({ id: 6, name: 'Grey analogue', profile: { kind: 'analogue', leadOhms: 0.1, ranges: [{ centreOhms: 12, arcFraction: 0.03 }] }, checkDate: null, checkResistorOhms: null, checkResistorTolerancePct: null })]);
+    first.flush({ items: [meterRecord(), meterRecord({ id: 6, name: 'Grey analogue', profile: { kind: 'analogue', leadOhms: 0.1, ranges: [{ centreOhms: 12, arcFraction: 0.03 }] }, checkDate: null, checkResistorOhms: null, checkResistorTolerancePct: null })] });
     await fixture.whenStable();
     expect(text()).toContain('Bench DMM');
     expect(text()).toContain('Checked 2026-01-15');
@@ -28,13 +28,13 @@ describe('MeterList', () => {
 
     await (await loader.getHarness(MatButtonHarness.with({ text: /Archive Grey analogue/ }))).click();
     (await nextRequest(http, (r) => r.method === 'DELETE' && r.url === '/api/meter-profiles/6')).flush(null, { status: 204, statusText: 'No Content' });
-    (await nextRequest(http, (r) => r.url === '/api/meter-profiles' && r.method === 'GET')).flush([meterRecord()]);
+    (await nextRequest(http, (r) => r.url === '/api/meter-profiles' && r.method === 'GET')).flush({ items: [meterRecord()] });
     await fixture.whenStable();
     expect(text()).not.toContain('Grey analogue');
 
     await (await loader.getHarness(MatCheckboxHarness)).check();
     const archived = await nextRequest(http, (r) => r.url === '/api/meter-profiles' && r.params.get('archived') === 'true');
-    archived.flush([meterRecord(), meterRecord({ id: 6, name: 'Grey analogue', archived: true })]);
+    archived.flush({ items: [meterRecord(), meterRecord({ id: 6, name: 'Grey analogue', archived: true })] });
     await fixture.whenStable();
     expect(text()).toContain('archived');
     expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: /Archive Grey analogue/ }))).toHaveSize(0);

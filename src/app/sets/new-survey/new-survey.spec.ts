@@ -40,7 +40,7 @@ describe('NewSurvey', () => {
     const m = await mount(NewSurvey, { id: '5' });
     (await nextRequest(http, '/api/sets/5')).flush(setDetail());
     (await nextRequest(http, '/api/templates/11')).flush(view());
-    (await nextRequest(http, (r) => r.url === '/api/meter-profiles')).flush([meterRecord(), meterRecord({ id: 5, name: 'Old analogue', archived: true })]);
+    (await nextRequest(http, (r) => r.url === '/api/meter-profiles')).flush({ items: [meterRecord(), meterRecord({ id: 5, name: 'Old analogue', archived: true })] });
     await m.fixture.whenStable();
     return m;
   }

@@ -56,6 +56,15 @@ describe('HistorySection', () => {
     expect(text()).toContain('Drift rate +1.00 %/year');
     expect(text()).toContain('meter changed (triangle in the chart)');
     expect(text()).toContain('+4.0 %');
+    // The chart comes in its own lazily loaded chunk once the page is idle: a canvas with a text alternative.
+    let chart: Element | null = null;
+    for (let i = 0; i < 100 && !chart; i++) {
+      await new Promise((r) => setTimeout(r, 20));
+      await fixture.whenStable();
+      chart = (fixture.nativeElement as HTMLElement).querySelector('dm-history-chart canvas');
+    }
+    expect(chart).not.toBeNull();
+    expect((fixture.nativeElement as HTMLElement).querySelector('dm-history-chart [role=img]')?.getAttribute('aria-label')).toContain('Chart of the drift of R2 over 3 surveys');
 
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Compare' }))).click();
     const req = await nextRequest(http, (r) => r.url === '/api/sets/5/compare');

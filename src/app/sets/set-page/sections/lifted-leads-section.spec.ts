@@ -34,7 +34,7 @@ describe('LiftedLeadsSection', () => {
 
   it('moves a lead from open to re-soldered, and says so when it already was (409)', async () => {
     const { fixture, loader, text } = await mount(LiftedLeadsSection, { set: setDetail({ openLiftedLeads: 1 }) });
-    (await nextRequest(http, '/api/sets/5/lifted-leads')).flush([lead(), lead({ id: 4, componentRef: 'R2', node: 'V1.7' })]);
+    (await nextRequest(http, '/api/sets/5/lifted-leads')).flush({ items: [lead(), lead({ id: 4, componentRef: 'R2', node: 'V1.7' })] });
     await fixture.whenStable();
     expect(text()).toContain('Open (2)');
     let changed = 0;
