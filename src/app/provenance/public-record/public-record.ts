@@ -45,7 +45,7 @@ type Loaded = { state: 'loading' } | { state: 'ok'; value: PublicRecord } | { st
         @if (r.surveys.length) {
           <ul>
             @for (s of r.surveys; track $index) {
-              <li><strong>{{ purposes[s.purpose] ?? s.purpose }}, {{ s.date | date: 'mediumDate' }}</strong>: {{ counts(s.counts) }}</li>
+              <li><strong>{{ purposeLabel(s.purpose) }}, {{ s.date | date: 'mediumDate' }}</strong>: {{ counts(s.counts) }}</li>
             }
           </ul>
         } @else {
@@ -85,7 +85,6 @@ export class PublicRecordPage {
 
   /** Route parameter. */
   readonly token = input.required<string>();
-  protected readonly purposes: Readonly<Record<string, string>> = PURPOSE_LABELS;
   protected readonly counts = countsText;
   protected readonly loaded = signal<Loaded>({ state: 'loading' });
   protected readonly record = computed(() => {
@@ -113,6 +112,10 @@ export class PublicRecordPage {
         takeUntilDestroyed(),
       )
       .subscribe((l) => this.loaded.set(l));
+  }
+
+  protected purposeLabel(purpose: string): string {
+    return (PURPOSE_LABELS as Readonly<Record<string, string | undefined>>)[purpose] ?? purpose;
   }
 
   protected years(r: PublicRecord): string {

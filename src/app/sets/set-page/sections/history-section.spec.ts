@@ -3,7 +3,8 @@ import { MatButtonHarness } from '@angular/material/button/testing';
 import { clearAuthStorage, nextRequest } from '../../../../testing/http-testing';
 import { configureBed, mount } from '../../testing/section-bed';
 import { partInstance, setDetail, surveySummary } from '../../testing/set-fixtures';
-import { chartPoints, decimalYear, historyChartConfig } from './history-chart';
+import { historyChartConfig } from './history-chart';
+import { chartPoints, decimalYear } from './history-data';
 import { HistorySection, projectionText, rateText } from './history-section';
 
 describe('history words and chart data', () => {

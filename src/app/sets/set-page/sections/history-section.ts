@@ -12,7 +12,8 @@ import { PURPOSE_LABELS, pctText } from '../../set-words';
 import { formatOhms } from '@domain/notation';
 import type { HistoryPoint, PartInstance } from '@domain/part-history';
 import { SetHistory, SetsApi, SurveyCompare } from '../../sets-api';
-import { HistoryChart, bandOf } from './history-chart';
+import { HistoryChart } from './history-chart';
+import { bandOf } from './history-data';
 
 /** The drift rate in words: `+1.20 %/year (95 % interval +0.40 to +2.00 %/year, 4 surveys)`, or why there is none. */
 export function rateText(part: PartInstance): string {
