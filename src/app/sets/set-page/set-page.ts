@@ -18,6 +18,7 @@ import { BringUpSection } from './sections/bring-up-section';
 import { DeviationsSection } from './sections/deviations-section';
 import { GatesSection } from './sections/gates-section';
 import { HistorySection } from './sections/history-section';
+import { IntakeSection } from './sections/intake-section';
 import { LiftedLeadsSection } from './sections/lifted-leads-section';
 import { PartsSection } from './sections/parts-section';
 import { ReplacementsSection } from './sections/replacements-section';
@@ -51,6 +52,7 @@ type Loaded<T> = { state: 'loading' } | { state: 'ok'; value: T } | { state: 'fa
     BringUpSection,
     HistorySection,
     SharingSection,
+    IntakeSection,
   ],
   templateUrl: './set-page.html',
   styleUrl: './set-page.scss',

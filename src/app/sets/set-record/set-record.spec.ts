@@ -39,7 +39,10 @@ describe('SetRecord', () => {
     const { fixture, text } = await mount(SetRecord, { id: '5' });
     (await nextRequest(http, '/api/sets/5/record')).flush({
       generatedAt: '2026-03-05T10:00:00Z',
-      set: setDetail(),
+      set: setDetail({
+        deviations: [{ key: 'dv-1', kind: 'non-original', componentKey: 'c-r2', nominal: { ohms: 220000, text: '220k' }, tolerancePct: null, note: 'replaced before intake' }],
+        tubeRecords: [{ socketKey: 'so-v1', status: 'wrong-type', foundType: '12AT6', testResult: '82 %', note: '', recordedBy: ADA, updatedAt: '2024-03-02T10:00:00Z' }],
+      }),
       surveys: [surveyView()],
       partsRecord: [{ id: 1, componentKey: 'c-r1', componentRef: 'R1', action: 'replaced', newPart: { text: '10M', ohms: 10e6, uF: null, watts: 0.5, volts: null, kind: 'carbon film', measuredText: '9M9', measuredOhms: 9.9e6 }, readingId: 102, reason: '', note: '', recordedBy: ADA, createdAt: '2024-03-04T10:00:00Z' }],
       gates: gatesView(),
@@ -59,6 +62,8 @@ describe('SetRecord', () => {
     expect(text()).toContain('✓ signed');
     expect(text()).toContain('○ open');
     expect(text()).toContain('It certifies nothing');
+    expect(text()).toContain('R2: non-original part found, 220 kΩ');
+    expect(text()).toContain('V1 (12AV6): wrong type, found 12AT6, tube test 82 %');
     expect(el.querySelector('.no-print')).not.toBeNull();
   });
 

@@ -9,7 +9,8 @@ import type { SurveyView } from '@domain/set-format';
 import { catchError, map, of, switchMap } from 'rxjs';
 import { apiErrorOf } from '../../core/errors/api-error';
 import { VerdictBadge } from '../../shared/verdict-badge/verdict-badge';
-import { BRING_UP_STEP_LABELS, JOB_STATUS_LABELS, PARTS_ACTION_LABELS, PURPOSE_LABELS, RESTORATION_LEVEL_LABELS, SURVEY_STATE_LABELS, countsText, pctText } from '../set-words';
+import { nominalText } from '../../templates/template-words';
+import { BRING_UP_STEP_LABELS, DEVIATION_KIND_LABELS, TUBE_STATUS_LABELS, JOB_STATUS_LABELS, PARTS_ACTION_LABELS, PURPOSE_LABELS, RESTORATION_LEVEL_LABELS, SURVEY_STATE_LABELS, countsText, pctText } from '../set-words';
 import { SetRecordView, SetsApi } from '../sets-api';
 import { RecordStage, recordStages } from './record-rows';
 
@@ -83,6 +84,25 @@ export class SetRecord {
       )
       .subscribe((l) => this.loaded.set(l));
   }
+
+  /** The newest survey's template document: names components and sockets for deviations and tube records. */
+  private readonly doc = computed(() => {
+    const list = this.surveys();
+    return list.length ? list[list.length - 1].view.template.document : null;
+  });
+
+  protected componentRef(key: string): string {
+    return this.doc()?.components.find((c) => c.key === key)?.ref ?? key;
+  }
+
+  protected socketName(key: string): string {
+    for (const st of this.doc()?.stages ?? []) for (const so of st.sockets) if (so.key === key) return `${so.designator} (${so.tubeType})`;
+    return key;
+  }
+
+  protected readonly nominal = nominalText;
+  protected readonly tubeStatus = TUBE_STATUS_LABELS;
+  protected readonly deviationKinds = DEVIATION_KIND_LABELS;
 
   protected print(): void {
     window.print();
