@@ -11,6 +11,7 @@
  * right after it.
  */
 import { randomBytes } from 'node:crypto';
+import type pg from 'pg';
 import { eq, sql } from 'drizzle-orm';
 import { readings } from '../../schema/index';
 import type { Ctx } from '../context';
@@ -133,6 +134,37 @@ function evaluationOf(grid: SurveyGrid, r: ReadingRecord, jointChecked: boolean)
 }
 
 /**
+ * The save, one statement: the account (active, at the token's version: $1, $2), the survey's set
+ * visible to it ($5), the survey a draft and a followed reading ($4) of the same test point ($3);
+ * the insert, idempotent by client key ($6); the stored row of a replay. A named prepared
+ * statement: PostgreSQL plans it once per connection.
+ */
+const SAVE_SQL = `
+    WITH u AS (
+      SELECT id, name, 'admin' = ANY(roles) AS admin FROM users
+      WHERE id = $1::int AND active AND token_version = $2::int
+    ), acc AS (
+      SELECT sv.id, sv.state::text AS state, sv.version AS survey_version, s.version AS set_version,
+             (sv.joint_checks ? $3::text) AS joint_checked,
+             ($4::bigint IS NULL OR EXISTS (
+               SELECT 1 FROM readings f WHERE f.id = $4::bigint AND f.survey_id = sv.id AND f.test_point_key = $3::text)) AS follows_ok
+      FROM surveys sv JOIN sets s ON s.id = sv.set_id CROSS JOIN u
+      WHERE sv.id = $5::int AND (u.admin OR s.owner_id = u.id OR EXISTS (SELECT 1 FROM set_shares sh WHERE sh.set_id = s.id AND sh.user_id = u.id))
+    ), ins AS (
+      INSERT INTO readings (survey_id, test_point_key, client_key, follows_reading_id, text, state, ohms, method, lifted_end, range_index, note, prediction, entered_by, taken_at)
+      SELECT acc.id, $3::text, $6::text, $4::bigint, $7::text, $8::reading_state, $9::float8,
+             $10::reading_method, $11::smallint, $12::smallint, $13::text, $14::text, $1::int, coalesce($15::timestamptz, now())
+      FROM acc WHERE acc.state = 'draft' AND acc.follows_ok
+      ON CONFLICT (survey_id, client_key) DO NOTHING
+      RETURNING *
+    )
+    SELECT EXISTS (SELECT 1 FROM u) AS account_ok, acc.id AS survey_id, acc.state, acc.survey_version, acc.set_version, acc.joint_checked, acc.follows_ok,
+      (SELECT row_to_json(x) FROM (SELECT i.*, (SELECT u.name FROM u) AS entered_by_name FROM ins i) x) AS inserted,
+      (SELECT row_to_json(x) FROM (SELECT r.*, eu.name AS entered_by_name FROM readings r LEFT JOIN users eu ON eu.id = r.entered_by
+                                   WHERE r.survey_id = acc.id AND r.client_key = $6::text) x) AS existing
+    FROM (SELECT 1) one LEFT JOIN acc ON true`;
+
+/**
  * POST /api/surveys/:id/readings. The route verifies the access token without a query (`auth:
  * 'folded'`): the statement below checks the account (active, at the token's version), the set's
  * visibility, the survey's state and the followed reading, and inserts — one round trip once this
@@ -153,31 +185,23 @@ export async function saveReading(ctx: Ctx, caller: VerifiedClaims, surveyId: nu
   const value = textOrState(input, meter, input.rangeIndex);
 
   const follows = input.followsReadingId ?? null;
-  const statement = sql`
-    WITH u AS (
-      SELECT id, name, 'admin' = ANY(roles) AS admin FROM users
-      WHERE id = ${caller.userId} AND active AND token_version = ${caller.tokenVersion}
-    ), acc AS (
-      SELECT sv.id, sv.state::text AS state, sv.version AS survey_version, s.version AS set_version,
-             (sv.joint_checks ? ${input.testPointKey}) AS joint_checked,
-             (${follows}::bigint IS NULL OR EXISTS (
-               SELECT 1 FROM readings f WHERE f.id = ${follows}::bigint AND f.survey_id = sv.id AND f.test_point_key = ${input.testPointKey})) AS follows_ok
-      FROM surveys sv JOIN sets s ON s.id = sv.set_id CROSS JOIN u
-      WHERE sv.id = ${surveyId} AND (u.admin OR s.owner_id = u.id OR EXISTS (SELECT 1 FROM set_shares sh WHERE sh.set_id = s.id AND sh.user_id = u.id))
-    ), ins AS (
-      INSERT INTO readings (survey_id, test_point_key, client_key, follows_reading_id, text, state, ohms, method, lifted_end, range_index, note, prediction, entered_by, taken_at)
-      SELECT acc.id, ${input.testPointKey}, ${input.clientKey}, ${follows}::bigint, ${value.text}, ${value.state}::reading_state, ${value.ohms}::float8,
-             ${input.method ?? 'in-circuit'}::reading_method, ${input.liftedEnd ?? null}::smallint, ${input.rangeIndex ?? null}::smallint,
-             ${input.note ?? ''}, ${input.prediction ?? null}, ${caller.userId}, coalesce(${input.takenAt ?? null}::timestamptz, now())
-      FROM acc WHERE acc.state = 'draft' AND acc.follows_ok
-      ON CONFLICT (survey_id, client_key) DO NOTHING
-      RETURNING *
-    )
-    SELECT EXISTS (SELECT 1 FROM u) AS account_ok, acc.id AS survey_id, acc.state, acc.survey_version, acc.set_version, acc.joint_checked, acc.follows_ok,
-      (SELECT row_to_json(x) FROM (SELECT i.*, (SELECT u.name FROM u) AS entered_by_name FROM ins i) x) AS inserted,
-      (SELECT row_to_json(x) FROM (SELECT r.*, eu.name AS entered_by_name FROM readings r LEFT JOIN users eu ON eu.id = r.entered_by
-                                   WHERE r.survey_id = acc.id AND r.client_key = ${input.clientKey}) x) AS existing
-    FROM (SELECT 1) one LEFT JOIN acc ON true`;
+  const params = [
+    caller.userId,
+    caller.tokenVersion,
+    input.testPointKey,
+    follows,
+    surveyId,
+    input.clientKey,
+    value.text,
+    value.state,
+    value.ohms,
+    input.method ?? 'in-circuit',
+    input.liftedEnd ?? null,
+    input.rangeIndex ?? null,
+    input.note ?? '',
+    input.prediction ?? null,
+    input.takenAt ?? null,
+  ];
   type Out = {
     account_ok: boolean;
     survey_id: number | null;
@@ -190,15 +214,27 @@ export async function saveReading(ctx: Ctx, caller: VerifiedClaims, surveyId: nu
     existing: RawReading | null;
   };
   let out: Out | undefined;
+  const pool = (ctx.db as unknown as { $client: pg.Pool }).$client;
+  const query = { name: 'reading-save', text: SAVE_SQL, values: params };
   if (ctx.faults) {
+    // The seams around the commit (specs): the statement in a transaction of its own.
     const faults = ctx.faults;
-    out = await ctx.db.transaction(async (tx) => {
-      const r = await tx.execute<Out>(statement);
-      await faults.around('reading-save', 'before-commit');
-      return r.rows[0];
-    });
+    const client = await pool.connect();
+    try {
+      await client.query('BEGIN');
+      try {
+        out = (await client.query<Out>(query)).rows[0];
+        await faults.around('reading-save', 'before-commit');
+        await client.query('COMMIT');
+      } catch (e) {
+        await client.query('ROLLBACK').catch(() => undefined);
+        throw e;
+      }
+    } finally {
+      client.release();
+    }
     await faults.around('reading-save', 'after-commit');
-  } else out = (await ctx.db.execute<Out>(statement)).rows[0];
+  } else out = (await pool.query<Out>(query)).rows[0];
 
   if (out === undefined || !out.account_ok) {
     await actorOf(ctx.db, caller); // says why: deactivated, or a stale token
