@@ -7,6 +7,7 @@ import { healthRoutes } from './health/health.routes';
 import { meterProfileRoutes } from './meter-profiles/meter-profiles.routes';
 import type { RouteDef } from './http/route-table';
 import { recordRoutes } from './records/records.routes';
+import { setFileRoutes } from './set-files/set-files.routes';
 import { setRoutes } from './sets/sets.routes';
 import { settingsRoutes } from './settings/settings.routes';
 import { surveyRoutes } from './surveys/surveys.routes';
@@ -16,5 +17,5 @@ import { adminRoutes } from './users/users.routes';
 import type pg from 'pg';
 
 export function buildRouteTable(ctx: Ctx, pool: pg.Pool): RouteDef[] {
-  return [...healthRoutes(pool), ...authRoutes(ctx), ...adminRoutes(ctx), ...settingsRoutes(ctx), ...calcRoutes(ctx.config), ...tubeTypeRoutes(ctx), ...templateRoutes(ctx), ...fileRoutes(ctx), ...meterProfileRoutes(ctx), ...setRoutes(ctx), ...surveyRoutes(ctx), ...recordRoutes(ctx)];
+  return [...healthRoutes(pool), ...authRoutes(ctx), ...adminRoutes(ctx), ...settingsRoutes(ctx), ...calcRoutes(ctx.config), ...tubeTypeRoutes(ctx), ...templateRoutes(ctx), ...fileRoutes(ctx), ...meterProfileRoutes(ctx), ...setRoutes(ctx), ...setFileRoutes(ctx), ...surveyRoutes(ctx), ...recordRoutes(ctx)];
 }

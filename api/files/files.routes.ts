@@ -29,7 +29,7 @@ const CAPTION_MESSAGES: Record<string, string> = {
   type: '"caption" must be a string.',
 };
 /** The message of a refused caption in words (ajv's own names the pattern). */
-const captionMessage = (keyword: string) => CAPTION_MESSAGES[keyword] ?? '"caption" is not valid.';
+export const captionMessage = (keyword: string) => CAPTION_MESSAGES[keyword] ?? '"caption" is not valid.';
 const captionCheck = ajv.compile(caption);
 
 /**
@@ -75,7 +75,7 @@ const changeBody = {
 } as unknown as JSONSchemaType<ChangeBody>;
 
 /** A multipart request, or a 400 before anything else. */
-const multipartOnly: RequestHandler = (req, _res, next) => {
+export const multipartOnly: RequestHandler = (req, _res, next) => {
   if (!req.is('multipart/form-data')) throw badRequest('Send the file as multipart/form-data with the file in the field "file".', '(body)', 'not-multipart');
   next();
 };
@@ -90,7 +90,7 @@ const MULTER_MESSAGES: Record<string, (maxBytes: number, field?: string) => [str
 const FIELD_ERRORS = ['LIMIT_UNEXPECTED_FILE', 'LIMIT_FIELD_VALUE'];
 
 /** multer in memory within the limits; its errors (and a broken body) become 400s naming `file`. */
-function uploadParser(ctx: Ctx): RequestHandler {
+export function uploadParser(ctx: Ctx): RequestHandler {
   const max = ctx.config.upload.maxBytes;
   const single = multer({
     storage: multer.memoryStorage(),
