@@ -10,7 +10,7 @@ import type { Role } from '../../schema/index';
 import type { Db } from '../db';
 import { forbidden, unauthorized } from '../http/errors';
 import { findUserById, type UserRow } from './auth.repository';
-import { JWT_VERIFY_OPTIONS, type AccessClaims } from './tokens';
+import { JWT_VERIFY_OPTIONS, jwtKey, type AccessClaims } from './tokens';
 
 export type SignedInUser = Omit<UserRow, 'passwordHash'>;
 
@@ -45,7 +45,7 @@ export function createAuthGuards(db: Db, secret: string): AuthGuards {
   const passport = new Passport();
   passport.use(
     new JwtStrategy(
-      { jwtFromRequest: ExtractJwt.fromAuthHeaderAsBearerToken(), secretOrKey: secret, ...JWT_VERIFY_OPTIONS },
+      { jwtFromRequest: ExtractJwt.fromAuthHeaderAsBearerToken(), secretOrKey: jwtKey(secret) as unknown as string, ...JWT_VERIFY_OPTIONS },
       (claims: AccessClaims, done: (err: unknown, user?: SignedInUser | false, info?: unknown) => void) => {
         findUserById(db, Number(claims.sub)).then((u) => {
           if (!u) return done(null, false, { message: 'unknown user' });
@@ -80,7 +80,7 @@ export function createAuthGuards(db: Db, secret: string): AuthGuards {
     const token = ExtractJwt.fromAuthHeaderAsBearerToken()(req);
     if (!token) return next(unauthorized(UNAUTHORIZED_MESSAGE));
     try {
-      const claims = jwt.verify(token, secret, JWT_VERIFY_OPTIONS) as AccessClaims;
+      const claims = jwt.verify(token, jwtKey(secret), JWT_VERIFY_OPTIONS) as AccessClaims;
       const userId = Number(claims.sub);
       if (!Number.isSafeInteger(userId) || typeof claims.tv !== 'number') return next(unauthorized(UNAUTHORIZED_MESSAGE));
       req.claims = { userId, tokenVersion: claims.tv };

@@ -1,4 +1,4 @@
-import { createHash, createHmac, randomBytes } from 'node:crypto';
+import { createHash, createHmac, createSecretKey, randomBytes, type KeyObject } from 'node:crypto';
 import jwt from 'jsonwebtoken';
 import type { Role } from '../../schema/index';
 
@@ -9,8 +9,23 @@ export interface AccessClaims {
   tv: number;
 }
 
+/**
+ * The HMAC key of a secret, made once per secret: jsonwebtoken given a string tries to read it as
+ * a public key first (node's createPublicKey, which throws) on every sign and verify — under load
+ * that was the largest cost of a signed-in request (a CPU profile of the reading save).
+ */
+const keys = new Map<string, KeyObject>();
+export function jwtKey(secret: string): KeyObject {
+  let k = keys.get(secret);
+  if (k === undefined) {
+    k = createSecretKey(Buffer.from(secret, 'utf8'));
+    keys.set(secret, k);
+  }
+  return k;
+}
+
 export function signAccessToken(secret: string, seconds: number, user: { id: number; roles: Role[]; tokenVersion: number }): string {
-  return jwt.sign({ roles: user.roles, tv: user.tokenVersion }, secret, {
+  return jwt.sign({ roles: user.roles, tv: user.tokenVersion }, jwtKey(secret), {
     algorithm: 'HS256',
     subject: String(user.id),
     expiresIn: seconds,
