@@ -1,3 +1,4 @@
+import { performance } from 'node:perf_hooks';
 /**
  * createApp(deps) builds the Express app without listening (specs call it through supertest);
  * api/server.ts listens. Configuration and services are passed in.
@@ -61,6 +62,11 @@ export function createApp(deps: AppDeps): Express & { routeTable: readonly Route
   const app = express() as Express & { routeTable: readonly RouteDef[] };
   app.set('trust proxy', config.trustProxy);
   app.disable('x-powered-by');
+  // When the request arrived: routes that report their own server time (Server-Timing) read it.
+  app.use((_req, res, next) => {
+    res.locals['startedAt'] = performance.now();
+    next();
+  });
   app.use(
     helmet({
       contentSecurityPolicy: { useDefaults: false, directives: { ...CONTENT_SECURITY_POLICY, ...(config.tls ? { upgradeInsecureRequests: [] } : {}) } },

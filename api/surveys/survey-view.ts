@@ -277,6 +277,25 @@ export async function surveyViewOf(tx: Tx, survey: repo.SurveyRow, access: SetAc
   };
 }
 
+/** The template part of survey views, serialised once per version (a published version never changes). */
+const templateJsonCache = new Map<string, string>();
+
+/**
+ * The survey view as JSON text: the template document and tube types (the bulk of a view, and
+ * immutable per version) spliced in from a cache instead of serialised for every open.
+ */
+export function surveyViewJson(view: SurveyView): string {
+  const { template, tubeTypes, ...rest } = view;
+  const key = `${template.id}:${template.versionNumber}`;
+  let cached = templateJsonCache.get(key);
+  if (cached === undefined) {
+    cached = `"template":${JSON.stringify(template)},"tubeTypes":${JSON.stringify(tubeTypes)}`;
+    templateJsonCache.set(key, cached);
+    if (templateJsonCache.size > VERSION_CACHE_MAX) templateJsonCache.delete(templateJsonCache.keys().next().value!);
+  }
+  return `{${cached},${JSON.stringify(rest).slice(1)}`;
+}
+
 /** Runs the steps one after the other (one connection: a transaction). */
 export async function inTurn(steps: readonly (() => Promise<unknown>)[]): Promise<unknown[]> {
   const out: unknown[] = [];

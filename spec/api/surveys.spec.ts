@@ -217,4 +217,20 @@ describe('Surveys', () => {
     const r = await request(env.app).post(`/api/surveys/${start.body.survey.id}/readings`).set(bearer(tech)).send({ testPointKey: 'tp-r2', clientKey: clientKey(), text: '250k' });
     expect(r.status).toBe(201);
   });
+
+  it('answers the view as JSON with its server time (Server-Timing), the template spliced in whole, twice the same', async () => {
+    const env = await apiEnv();
+    const s = await makeSurvey({ ownerId: tech.user.id });
+    await addReading(s.id, { testPointKey: 'tp-r2', text: '250k' });
+    const a = await request(env.app).get(`/api/surveys/${s.id}`).set(bearer(tech));
+    const b = await request(env.app).get(`/api/surveys/${s.id}`).set(bearer(tech));
+    expect(a.status).toBe(200);
+    expect(a.headers['content-type']).toMatch(/^application\/json/);
+    expect(a.headers['server-timing']).toMatch(/^app;dur=\d+(\.\d+)?$/);
+    // The second answer comes from the cached template text: the same document, field for field.
+    expect(b.body.template).toEqual(a.body.template);
+    expect(a.body.template.document.testPoints.length).toBeGreaterThan(0);
+    expect(a.body.readings.length).toBe(1);
+    expect(Object.keys(b.body)).toEqual(Object.keys(a.body));
+  });
 });

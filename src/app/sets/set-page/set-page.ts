@@ -21,6 +21,7 @@ import { HistorySection } from './sections/history-section';
 import { IntakeSection } from './sections/intake-section';
 import { LiftedLeadsSection } from './sections/lifted-leads-section';
 import { PartsSection } from './sections/parts-section';
+import { PhotosSection } from './sections/photos-section';
 import { ReplacementsSection } from './sections/replacements-section';
 import { SharingSection } from './sections/sharing-section';
 import { SurveysSection } from './sections/surveys-section';
@@ -48,6 +49,7 @@ type Loaded<T> = { state: 'loading' } | { state: 'ok'; value: T } | { state: 'fa
     GatesSection,
     LiftedLeadsSection,
     PartsSection,
+    PhotosSection,
     ReplacementsSection,
     BringUpSection,
     HistorySection,
