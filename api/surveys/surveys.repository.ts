@@ -52,6 +52,17 @@ export async function surveysOfSet(tx: Tx, setId: number): Promise<SurveyRow[]> 
   return rows.map((r) => ({ ...r.s, startedByName: r.startedByName }));
 }
 
+/** The surveys of the set a survey belongs to (as surveysOfSet, found from the survey's id: no access check). */
+export async function surveysBesides(tx: Tx, surveyId: number): Promise<SurveyRow[]> {
+  const rows = await tx
+    .select({ s: surveys, startedByName: users.name })
+    .from(surveys)
+    .leftJoin(users, eq(users.id, surveys.startedBy))
+    .where(sql`${surveys.setId} = (SELECT set_id FROM surveys WHERE id = ${surveyId})`)
+    .orderBy(asc(surveys.createdAt), asc(surveys.id));
+  return rows.map((r) => ({ ...r.s, startedByName: r.startedByName }));
+}
+
 // ---------------------------------------------------------------------------------------------
 // Readings
 
@@ -137,6 +148,28 @@ export async function readingsOf(tx: Tx, surveyId: number): Promise<ReadingRecor
     FROM readings r LEFT JOIN users u ON u.id = r.entered_by
     WHERE r.survey_id = ${surveyId}`);
   return r.rows[0]?.list ?? [];
+}
+
+/** The current values of the newest earlier survey of the same set (as currentValuesOf), found from this survey's id. */
+export async function previousValuesOf(tx: Tx, surveyId: number): Promise<{ surveyId: number; list: { testPointKey: string; text: string; state: ReadingState; ohms: number | null }[] } | null> {
+  const r = await tx.execute<{ id: number | null; list: { testPointKey: string; text: string; state: ReadingState; ohms: number | null }[] | null }>(sql`
+    WITH me AS (SELECT id, set_id, created_at FROM surveys WHERE id = ${surveyId}),
+    prev AS (
+      SELECT s.id FROM surveys s, me
+      WHERE s.set_id = me.set_id AND (s.created_at < me.created_at OR (s.created_at = me.created_at AND s.id < me.id))
+      ORDER BY s.created_at DESC, s.id DESC LIMIT 1
+    )
+    SELECT (SELECT id FROM prev) AS id,
+      (SELECT json_agg(json_build_object('testPointKey', c.test_point_key, 'text', c.text, 'state', c.state, 'ohms', c.ohms) ORDER BY c.id)
+       FROM (
+         SELECT DISTINCT ON (r.test_point_key) r.id, r.test_point_key, r.text, r.state, r.ohms
+         FROM readings r
+         WHERE r.survey_id = (SELECT id FROM prev)
+           AND NOT EXISTS (SELECT 1 FROM readings f WHERE f.survey_id = r.survey_id AND f.follows_reading_id = r.id)
+         ORDER BY r.test_point_key, r.id DESC
+       ) c) AS list`);
+  const row = r.rows[0];
+  return row && row.id !== null ? { surveyId: row.id, list: row.list ?? [] } : null;
 }
 
 /** The current value of each test point of a survey (the newest reading no follow-up supersedes), in stored order. */
