@@ -27,8 +27,9 @@ describe('The set pages', () => {
     await page.getByText('Vellmar Museum of Sound', { exact: true }).first().click();
     await page.getByRole('heading', { level: 1, name: 'Vellmar Museum of Sound' }).waitFor();
     await page.getByRole('tab', { name: 'Safety gates' }).click();
-    await page.getByText('Signed', { exact: true }).first().waitFor();
-    expect(await page.getByText('Open', { exact: true }).count()).toBe(0);
+    await page.locator('li.gate .state', { hasText: 'Signed' }).first().waitFor();
+    expect(await page.locator('li.gate .state.open').count()).toBe(0);
+    expect(await page.locator('li.gate').count()).toBeGreaterThan(4);
 
     await page.goto(url(`/sets/${await setIdOf(url(''), 'Job 2611 — R. Anselm')}`));
     await page.getByRole('tab', { name: 'Lifted leads (1 open)' }).click();
