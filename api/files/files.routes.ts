@@ -8,16 +8,17 @@
  * content security policy of their own replaces the app's (see SERVE_POLICY).
  */
 import type { JSONSchemaType } from 'ajv';
-import type { Request, RequestHandler } from 'express';
+import type { Request, RequestHandler, Response } from 'express';
 import multer from 'multer';
 import { pipeline } from 'node:stream/promises';
 import type { Ctx } from '../context';
 import { AppError, badRequest } from '../http/errors';
 import type { RouteDef } from '../http/route-table';
 import { ajv, ID, validate } from '../http/validate';
+import type { StoredObject } from '../storage/storage';
 import { line } from '../templates/template-schema';
 import * as files from './files.use-cases';
-import { contentDisposition, downloadName, IMAGE_TYPES, PDF } from './media';
+import { contentDisposition, downloadName, IMAGE_TYPES, PDF, THUMBNAIL_TYPE } from './media';
 
 const STAGE_KEY = '^st-[A-Za-z0-9_-]{1,40}$';
 /** A caption: one line of free text, no markup, at most 300 characters ('' = none). */
@@ -111,17 +112,15 @@ export function uploadParser(ctx: Ctx): RequestHandler {
   };
 }
 
-const templateId = (req: Request) => Number(req.params.id);
-const fileId = (req: Request) => Number(req.params.fileId);
-
-export function fileRoutes(ctx: Ctx): RouteDef[] {
-  const uploadPath = validate({ params: { id: ID } });
-  const changeCheck = validate({ body: changeBody, params: { id: ID, fileId: ID } });
-  /** The shared validation, with a refused caption said in words. */
-  const validateChange: RequestHandler = (req, res, next) => {
+/**
+ * A validation whose refused caption is said in words (ajv's own message names the pattern); any
+ * other refusal goes out as the validation made it.
+ */
+export function withCaptionInWords(check: RequestHandler): RequestHandler {
+  return (req, res, next) => {
     let refused: unknown = null;
     try {
-      changeCheck(req, res, (err?: unknown) => {
+      check(req, res, (err?: unknown) => {
         refused = err ?? null;
       });
     } catch (e) {
@@ -134,6 +133,43 @@ export function fileRoutes(ctx: Ctx): RouteDef[] {
     }
     throw refused;
   };
+}
+
+/** How one stored object goes out: its media type, inline or as an attachment, the name to save it under. */
+export interface Served {
+  mediaType: string;
+  inline: boolean;
+  name: string;
+}
+
+/**
+ * Sends the bytes of an upload (a template file, a set's photo, their thumbnails): `nosniff`, the
+ * media type and size, a policy of its own replacing the app's (SERVE_POLICY: PDFs theirs, other
+ * inline types the image one, attachments `other`), inline or attachment under the given name, no
+ * caching; then streams the object from storage. A stream that breaks once the headers are out
+ * (the client went away, the storage failed) ends the response; nothing more can be answered.
+ */
+export async function sendStored(res: Response, object: StoredObject, { mediaType, inline, name }: Served): Promise<void> {
+  res.setHeader('Content-Type', mediaType);
+  if (object.size !== null) res.setHeader('Content-Length', String(object.size));
+  res.setHeader('X-Content-Type-Options', 'nosniff');
+  res.setHeader('Content-Security-Policy', !inline ? SERVE_POLICY.other : mediaType === PDF ? SERVE_POLICY.pdf : SERVE_POLICY.image);
+  res.setHeader('Content-Disposition', contentDisposition(inline ? 'inline' : 'attachment', name));
+  res.setHeader('Cache-Control', 'private, no-store');
+  try {
+    await pipeline(object.body, res);
+  } catch (e) {
+    if (!res.headersSent) throw e;
+    res.destroy();
+  }
+}
+
+const templateId = (req: Request) => Number(req.params.id);
+const fileId = (req: Request) => Number(req.params.fileId);
+
+export function fileRoutes(ctx: Ctx): RouteDef[] {
+  const uploadPath = validate({ params: { id: ID } });
+  const validateChange = withCaptionInWords(validate({ body: changeBody, params: { id: ID, fileId: ID } }));
   const ownerGate: RequestHandler = async (req, _res, next) => {
     await files.checkCanUpload(ctx, req.signedIn!, templateId(req));
     next();
@@ -142,20 +178,11 @@ export function fileRoutes(ctx: Ctx): RouteDef[] {
     async (req, res) => {
       const { file, object } = await files.openFile(ctx, req.signedIn!, templateId(req), fileId(req), which);
       const mediaType = which === 'thumbnail' ? object.mediaType : file.mediaType;
-      const inline = INLINE_TYPES.includes(mediaType);
-      res.setHeader('Content-Type', mediaType);
-      if (object.size !== null) res.setHeader('Content-Length', String(object.size));
-      res.setHeader('X-Content-Type-Options', 'nosniff');
-      res.setHeader('Content-Security-Policy', mediaType === PDF ? SERVE_POLICY.pdf : inline ? SERVE_POLICY.image : SERVE_POLICY.other);
-      res.setHeader('Content-Disposition', contentDisposition(inline ? 'inline' : 'attachment', which === 'thumbnail' ? `thumbnail-${downloadName(file.originalName, 'image/webp')}` : downloadName(file.originalName, mediaType)));
-      res.setHeader('Cache-Control', 'private, no-store');
-      try {
-        await pipeline(object.body, res);
-      } catch (e) {
-        // Headers are out: the client went away or the storage broke mid-stream; nothing to answer.
-        if (!res.headersSent) throw e;
-        res.destroy();
-      }
+      await sendStored(res, object, {
+        mediaType,
+        inline: INLINE_TYPES.includes(mediaType),
+        name: which === 'thumbnail' ? `thumbnail-${downloadName(file.originalName, THUMBNAIL_TYPE)}` : downloadName(file.originalName, mediaType),
+      });
     };
 
   return [

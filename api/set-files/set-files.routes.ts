@@ -5,23 +5,21 @@
  * visibility, and only then is the body read (multer, in memory, within UPLOAD_MAX_BYTES) — an
  * anonymous caller or a stranger to the set never makes the server buffer a file.
  *
- * Served bytes: `nosniff`, `inline` with the image policy of template files (SERVE_POLICY.image)
- * replacing the app's, no caching.
+ * Served bytes: as template files (sendStored): `nosniff`, `inline` with the image policy
+ * (SERVE_POLICY.image) replacing the app's, no caching.
  */
 import type { JSONSchemaType } from 'ajv';
 import type { Request, RequestHandler } from 'express';
-import { pipeline } from 'node:stream/promises';
 import type { Ctx } from '../context';
-import { CAPTION_MAX, captionMessage, multipartOnly, SERVE_POLICY, uploadParser } from '../files/files.routes';
-import { contentDisposition, downloadName, THUMBNAIL_TYPE } from '../files/media';
-import { AppError, badRequest } from '../http/errors';
+import { CAPTION_MAX, captionMessage, multipartOnly, sendStored, uploadParser, withCaptionInWords } from '../files/files.routes';
+import { downloadName, THUMBNAIL_TYPE } from '../files/media';
+import { badRequest } from '../http/errors';
 import type { RouteDef } from '../http/route-table';
 import { ajv, ID, validate } from '../http/validate';
 import { line } from '../templates/template-schema';
 import * as photos from './set-files.use-cases';
 
 const caption = line(CAPTION_MAX);
-const captionCheck = ajv.compile(caption);
 /** A reading id in a multipart field (text): a positive integer within JavaScript's exact range. */
 const READING_ID_TEXT = '^[1-9][0-9]{0,15}$';
 const readingIdNumber = { type: 'integer', minimum: 1, maximum: Number.MAX_SAFE_INTEGER } as const;
@@ -55,24 +53,8 @@ const fileId = (req: Request) => Number(req.params.fileId);
 
 export function setFileRoutes(ctx: Ctx): RouteDef[] {
   const uploadPath = validate({ params: { id: ID } });
-  const changeCheck = validate({ body: changeBody, params: { id: ID, fileId: ID } });
   /** The shared validation, with a refused caption said in words (as template files). */
-  const validateChange: RequestHandler = (req, res, next) => {
-    let refused: unknown = null;
-    try {
-      changeCheck(req, res, (err?: unknown) => {
-        refused = err ?? null;
-      });
-    } catch (e) {
-      refused = e;
-    }
-    if (refused === null) return next();
-    const body = req.body as { caption?: unknown } | null;
-    if (refused instanceof AppError && refused.details?.field === 'caption' && !String(body?.caption).includes('\u0000') && !captionCheck(body?.caption)) {
-      throw badRequest(captionMessage(captionCheck.errors![0].keyword), 'caption', 'validation');
-    }
-    throw refused;
-  };
+  const validateChange = withCaptionInWords(validate({ body: changeBody, params: { id: ID, fileId: ID } }));
   const setGate: RequestHandler = async (req, _res, next) => {
     await photos.checkCanUpload(ctx, req.signedIn!, setId(req));
     next();
@@ -81,21 +63,12 @@ export function setFileRoutes(ctx: Ctx): RouteDef[] {
     async (req, res) => {
       const { file, object } = await photos.openSetFile(ctx, req.signedIn!, setId(req), fileId(req), which);
       const mediaType = which === 'thumbnail' ? object.mediaType : file.mimeType;
-      // Only images are taken; a record of another type (none can be uploaded) would go as an attachment.
-      const inline = which === 'thumbnail' || photos.SET_PHOTO_TYPES.includes(mediaType);
-      res.setHeader('Content-Type', mediaType);
-      if (object.size !== null) res.setHeader('Content-Length', String(object.size));
-      res.setHeader('X-Content-Type-Options', 'nosniff');
-      res.setHeader('Content-Security-Policy', inline ? SERVE_POLICY.image : SERVE_POLICY.other);
-      res.setHeader('Content-Disposition', contentDisposition(inline ? 'inline' : 'attachment', which === 'thumbnail' ? `thumbnail-${downloadName(file.originalName, THUMBNAIL_TYPE)}` : downloadName(file.originalName, mediaType)));
-      res.setHeader('Cache-Control', 'private, no-store');
-      try {
-        await pipeline(object.body, res);
-      } catch (e) {
-        // Headers are out: the client went away or the storage broke mid-stream; nothing to answer.
-        if (!res.headersSent) throw e;
-        res.destroy();
-      }
+      await sendStored(res, object, {
+        mediaType,
+        // Only images are taken; a record of another type (none can be uploaded) would go as an attachment.
+        inline: which === 'thumbnail' || photos.SET_PHOTO_TYPES.includes(mediaType),
+        name: which === 'thumbnail' ? `thumbnail-${downloadName(file.originalName, THUMBNAIL_TYPE)}` : downloadName(file.originalName, mediaType),
+      });
     };
 
   return [
