@@ -1,11 +1,9 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
-import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
-import { FormArray, FormControl, FormGroup, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
+import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
-import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
@@ -13,17 +11,19 @@ import { Router, RouterLink } from '@angular/router';
 import { meterProblems, type MeterProfile } from '@domain/meter';
 import { parseResistance } from '@domain/notation';
 import { METER_CHECK_KINDS, type MeterCheckKind, type MeterProfileRecord } from '@domain/set-format';
-import { EMPTY, catchError, map, of, startWith, switchMap } from 'rxjs';
+import { EMPTY, catchError, map, of, switchMap } from 'rxjs';
 import { apiErrorOf } from '../../core/errors/api-error';
 import { showServerError } from '../../core/errors/server-errors';
 import { FieldErrors } from '../../shared/field-errors/field-errors';
+import { MeterRanges } from '../../shared/meter-ranges/meter-ranges';
+import { AnalogueRangeRow, DigitalRangeRow, loadMeterRanges, presetOnSwitch, rangesPart } from '../../shared/meter-ranges/meter-range-rows';
 import { CALC_MESSAGES, numberTextValidator, ohmsTextValidator } from '../../calc/calc-validators';
-import { MeterFormValue, meterChoiceOf, meterFormValueOf } from '../../calc/meter-editor/meter-form';
+import { MeterFormValue, meterChoiceOf } from '../../calc/meter-editor/meter-form';
 import { METER_PRESETS, MeterPreset } from '../../calc/meter-editor/meter-presets';
 import { MeterProfileInput, MetersApi } from '../meters-api';
 
-type DigitalRow = FormGroup<{ fullScale: FormControl<string>; resolution: FormControl<string>; pct: FormControl<string>; counts: FormControl<string> }>;
-type AnalogueRow = FormGroup<{ centre: FormControl<string>; arcPct: FormControl<string> }>;
+/** A saved profile's limit on counts (the API's schema). */
+const COUNTS_MAX = 1000;
 
 /** The profile the ranges part of the form describes, or the domain's problems with it. */
 export function profileOf(v: Omit<MeterFormValue, 'use' | 'rangeIndex'>): { profile: MeterProfile } | { problems: string[] } {
@@ -57,13 +57,12 @@ export function profileOf(v: Omit<MeterFormValue, 'use' | 'rangeIndex'>): { prof
     RouterLink,
     MatButtonModule,
     MatButtonToggleModule,
-    MatCheckboxModule,
     MatFormFieldModule,
-    MatIconModule,
     MatInputModule,
     MatProgressBarModule,
     MatSelectModule,
     FieldErrors,
+    MeterRanges,
   ],
   templateUrl: './meter-form.html',
   styleUrl: './meter-form.scss',
@@ -81,6 +80,7 @@ export class MeterForm {
   protected readonly presets = METER_PRESETS;
   protected readonly checkKinds = METER_CHECK_KINDS;
   protected readonly messages = CALC_MESSAGES;
+  protected readonly countsMax = COUNTS_MAX;
   protected readonly record = signal<MeterProfileRecord | null>(null);
   protected readonly loadError = signal<string | null>(null);
   protected readonly busy = signal(false);
@@ -92,14 +92,15 @@ export class MeterForm {
     kind: this.fb.control<'digital' | 'analogue'>('digital'),
     autorange: [false],
     lead: ['', ohmsTextValidator({ allowZero: true })],
-    digital: this.fb.array<DigitalRow>([]),
-    analogue: this.fb.array<AnalogueRow>([]),
+    digital: this.fb.array<DigitalRangeRow>([]),
+    analogue: this.fb.array<AnalogueRangeRow>([]),
     checkKind: this.fb.control<MeterCheckKind>('check'),
     checkDate: [''],
     checkResistor: ['', ohmsTextValidator()],
     checkTolerance: ['', numberTextValidator(0.001, 50, 'tolerance %')],
   });
-  protected readonly kind = toSignal(this.form.controls.kind.valueChanges.pipe(startWith(null), map(() => this.form.controls.kind.value)), { initialValue: 'digital' as const });
+  /** The same form, as the shared ranges part sees it. */
+  protected readonly ranges = rangesPart(this.form);
 
   constructor() {
     this.load(METER_PRESETS[0].profile);
@@ -131,31 +132,13 @@ export class MeterForm {
       });
   }
 
-  protected get digitalRows(): FormArray<DigitalRow> {
-    return this.form.controls.digital;
-  }
-  protected get analogueRows(): FormArray<AnalogueRow> {
-    return this.form.controls.analogue;
-  }
-
   protected applyPreset(preset: MeterPreset): void {
     this.load(preset.profile);
   }
 
   protected switchKind(kind: 'digital' | 'analogue'): void {
-    const rows = kind === 'digital' ? this.digitalRows : this.analogueRows;
-    if (rows.length === 0) this.load(METER_PRESETS.find((p) => p.profile.kind === kind)!.profile);
-  }
-
-  protected addDigitalRange(): void {
-    const last = this.digitalRows.at(this.digitalRows.length - 1)?.getRawValue();
-    this.digitalRows.push(this.digitalRow(last ?? { fullScale: '', resolution: '', pct: '1', counts: '2' }));
-  }
-  protected addAnalogueRange(): void {
-    this.analogueRows.push(this.analogueRow({ centre: '', arcPct: '3' }));
-  }
-  protected removeRange(kind: 'digital' | 'analogue', index: number): void {
-    (kind === 'digital' ? this.digitalRows : this.analogueRows).removeAt(index);
+    const preset = presetOnSwitch(this.ranges, kind);
+    if (preset) this.load(preset);
   }
 
   protected save(): void {
@@ -197,24 +180,6 @@ export class MeterForm {
   }
 
   private load(profile: MeterProfile): void {
-    const v = meterFormValueOf(profile);
-    this.form.setControl('digital', this.fb.array(v.digital.map((r) => this.digitalRow(r))));
-    this.form.setControl('analogue', this.fb.array(v.analogue.map((r) => this.analogueRow(r))));
-    this.form.patchValue({ kind: v.kind, autorange: v.autorange, lead: v.lead });
-  }
-
-  private digitalRow(r: { fullScale: string; resolution: string; pct: string; counts: string }): DigitalRow {
-    return this.fb.group({
-      fullScale: [r.fullScale, [Validators.required, ohmsTextValidator()]],
-      resolution: [r.resolution, [Validators.required, ohmsTextValidator()]],
-      pct: [r.pct, [Validators.required, numberTextValidator(0, 100, '% of reading')]],
-      counts: [r.counts, [Validators.required, numberTextValidator(0, 1000, 'counts')]],
-    });
-  }
-  private analogueRow(r: { centre: string; arcPct: string }): AnalogueRow {
-    return this.fb.group({
-      centre: [r.centre, [Validators.required, ohmsTextValidator()]],
-      arcPct: [r.arcPct, [Validators.required, numberTextValidator(0.01, 49.9, 'arc error %')]],
-    });
+    loadMeterRanges(this.ranges, profile, COUNTS_MAX);
   }
 }
