@@ -3,10 +3,12 @@
  * the template version's document, the tube types, the set's deviations, the readings and the
  * verdict of each, computed by api/domain/survey-grid.ts — the same module the browser runs.
  *
- * One SurveyGrid per (survey id, survey version, set version) is kept in a small LRU cache: a
- * survey's rule, meter and conditions change only with its version, the deviations only with the
- * set's version, and the template version of a survey never changes. (A tube-type library edit is
- * not seen by a cached grid until the survey or set changes or the process restarts.)
+ * Grids are kept in a small LRU cache keyed by what they are built from (template version, the
+ * set's deviations, meter, rule, tubes in), shared by every survey with the same inputs; a survey
+ * finds its grid again by (survey id, survey version, set version): its rule, meter and conditions
+ * change only with its version, the deviations only with the set's version, and the template
+ * version of a survey never changes. (A tube-type library edit is not seen by a cached grid until
+ * the process restarts.)
  */
 import { and, eq, inArray } from 'drizzle-orm';
 import { templateVersions } from '../../schema/index';
@@ -72,46 +74,66 @@ export async function publishedVersion(tx: Tx, templateId: number, number: numbe
 // ---------------------------------------------------------------------------------------------
 // Grids
 
-const GRID_CACHE_MAX = 256;
+/**
+ * Grids are shared by every survey that would build the same one: same template version, set
+ * deviations, meter, rule and tubes-in condition (the sets of one chassis surveyed with one meter —
+ * a shop's, a class's). A grid holds three factored networks, so the cache is small.
+ */
+const GRID_CACHE_MAX = 64;
 const gridCache = new Map<string, SurveyGrid>();
+/** (survey id, survey version, set version) → the content key of its grid. */
+const gridOfSurvey = new Map<string, string>();
 /** Test point keys and kinds per survey (a survey's template version never changes). */
 const rowCache = new Map<number, { meter: MeterProfile | null; rows: Map<string, { kind: string; componentKey: string | null }> }>();
 
 const gridKey = (surveyId: number, surveyVersion: number, setVersion: number) => `${surveyId}:${surveyVersion}:${setVersion}`;
+const contentKey = (survey: repo.SurveyRow, set: Pick<SetRow, 'deviations'>): string =>
+  JSON.stringify([survey.templateVersionId, set.deviations, meterOf(survey), survey.rule, (survey.conditions as SurveyConditions).tubesIn]);
+
+function lookup(key: string): SurveyGrid | undefined {
+  const g = gridCache.get(key);
+  if (g !== undefined) {
+    gridCache.delete(key);
+    gridCache.set(key, g);
+  }
+  return g;
+}
 
 /** The cached grid of a survey at these versions, if any. */
 export function cachedGrid(surveyId: number, surveyVersion: number, setVersion: number): SurveyGrid | undefined {
-  const k = gridKey(surveyId, surveyVersion, setVersion);
-  const g = gridCache.get(k);
-  if (g !== undefined) {
-    gridCache.delete(k);
-    gridCache.set(k, g);
-  }
-  return g;
+  const k = gridOfSurvey.get(gridKey(surveyId, surveyVersion, setVersion));
+  return k === undefined ? undefined : lookup(k);
 }
 
 export function meterOf(survey: repo.SurveyRow): MeterProfile | null {
   return (survey.meter as repo.MeterSnapshot | null)?.profile ?? null;
 }
 
-/** The grid of a survey row and its set row (cached per survey version and set version). */
+/** The grid of a survey row and its set row (shared by surveys whose grid inputs are the same). */
 export async function gridOf(tx: Tx, survey: repo.SurveyRow, set: Pick<SetRow, 'version' | 'deviations'>): Promise<SurveyGrid> {
-  const hit = cachedGrid(survey.id, survey.version, set.version);
-  if (hit) return hit;
-  const v = await versionDoc(tx, survey.templateVersionId);
-  const grid = new SurveyGrid({
-    document: v.document,
-    tubeTypes: v.tubeTypes,
-    deviations: set.deviations,
-    meter: meterOf(survey),
-    rule: survey.rule as AcceptanceRule,
-    conditions: survey.conditions as SurveyConditions,
-  });
-  const k = gridKey(survey.id, survey.version, set.version);
-  gridCache.set(k, grid);
-  if (gridCache.size > GRID_CACHE_MAX) gridCache.delete(gridCache.keys().next().value!);
-  rowCache.set(survey.id, { meter: meterOf(survey), rows: new Map(grid.rows.map((r) => [r.testPointKey, { kind: r.kind, componentKey: r.component?.key ?? null }])) });
-  if (rowCache.size > GRID_CACHE_MAX * 4) rowCache.delete(rowCache.keys().next().value!);
+  const k = contentKey(survey, set);
+  let grid = lookup(k);
+  if (grid === undefined) {
+    const v = await versionDoc(tx, survey.templateVersionId);
+    grid = new SurveyGrid({
+      document: v.document,
+      tubeTypes: v.tubeTypes,
+      deviations: set.deviations,
+      meter: meterOf(survey),
+      rule: survey.rule as AcceptanceRule,
+      conditions: survey.conditions as SurveyConditions,
+    });
+    gridCache.set(k, grid);
+    if (gridCache.size > GRID_CACHE_MAX) gridCache.delete(gridCache.keys().next().value!);
+  }
+  const sk = gridKey(survey.id, survey.version, set.version);
+  if (gridOfSurvey.get(sk) !== k || !rowCache.has(survey.id)) {
+    // A new version of this survey or its set (or a first sight): its rows and meter as of now.
+    gridOfSurvey.set(sk, k);
+    if (gridOfSurvey.size > GRID_CACHE_MAX * 64) gridOfSurvey.delete(gridOfSurvey.keys().next().value!);
+    rowCache.set(survey.id, { meter: meterOf(survey), rows: new Map(grid.rows.map((r) => [r.testPointKey, { kind: r.kind, componentKey: r.component?.key ?? null }])) });
+    if (rowCache.size > GRID_CACHE_MAX * 64) rowCache.delete(rowCache.keys().next().value!);
+  }
   return grid;
 }
 
