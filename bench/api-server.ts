@@ -43,6 +43,8 @@ async function stop(): Promise<void> {
 }
 process.on('message', (m) => {
   if (m === 'stop') void stop();
+  // The load bench asks for the server's memory while it runs.
+  if (m === 'memory') process.send?.({ memory: process.memoryUsage() });
 });
 process.on('disconnect', () => void stop());
 process.on('SIGTERM', () => void stop());

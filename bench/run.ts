@@ -1,7 +1,7 @@
 /**
  * `npm run bench` — every timing target of Driftmark lives here, never in tests (issue 2).
  *
- *   npx tsx bench/run.ts [--check] [--only=domain|api|auth|library|survey] [--fresh-scaled]
+ *   npx tsx bench/run.ts [--check] [--only=domain|api|auth|library|survey|load] [--fresh-scaled]
  *
  * stdout: one JSON object per figure (the first one describes the machine); with --check, then
  * one PASS/FAIL line per target, and exit 1 when a gating target fails. Progress goes to stderr.
@@ -11,7 +11,7 @@ import { cpus, loadavg, totalmem } from 'node:os';
 import { runDomain } from './domain';
 import { progress, type Figure } from './lib/stats';
 
-const GROUPS = ['domain', 'api', 'auth', 'library', 'survey'] as const;
+const GROUPS = ['domain', 'api', 'auth', 'library', 'survey', 'load'] as const;
 type Group = (typeof GROUPS)[number];
 
 function parseArgs(argv: string[]): { check: boolean; groups: Group[]; freshScaled: boolean } {
@@ -26,7 +26,7 @@ function parseArgs(argv: string[]): { check: boolean; groups: Group[]; freshScal
       for (const g of wanted) if (!(GROUPS as readonly string[]).includes(g)) throw new Error(`unknown group '${g}': use ${GROUPS.join(', ')}`);
       groups = GROUPS.filter((g) => wanted.includes(g));
     } else if (arg === '--help' || arg === '-h') {
-      process.stderr.write('usage: npx tsx bench/run.ts [--check] [--only=domain|api|auth|library|survey] [--fresh-scaled]\n');
+      process.stderr.write('usage: npx tsx bench/run.ts [--check] [--only=domain|api|auth|library|survey|load] [--fresh-scaled]\n');
       process.exit(0);
     } else throw new Error(`unknown argument '${arg}'`);
   }
@@ -73,6 +73,11 @@ async function main(): Promise<number> {
     progress('group survey');
     const { runSurvey } = await import('./survey');
     await runSurvey(emit, { freshScaled });
+  }
+  if (groups.includes('load')) {
+    progress('group load');
+    const { runLoad } = await import('./load');
+    await runLoad(emit, { freshScaled: freshScaled && !groups.includes('survey') });
   }
   emit({ figure: 'machine.load-at-end', value: Math.round(loadavg()[0] * 100) / 100, unit: 'load (1 min)', target: null, seconds: Math.round((Date.now() - started) / 100) / 10 });
   progress(`done in ${((Date.now() - started) / 1000).toFixed(1)} s`);

@@ -99,7 +99,7 @@ function migrationTag(): string {
 }
 
 /** The scaled database: reused from `.data/bench-scaled/` when its marker matches, else built. */
-async function scaledDatabase(fresh: boolean): Promise<{ cluster: Cluster; built: boolean; seconds: number }> {
+export async function scaledDatabase(fresh: boolean): Promise<{ cluster: Cluster; built: boolean; seconds: number }> {
   const dir = join(ROOT, '.data', 'bench-scaled');
   const marker = join(dir, 'seed-version');
   const want = `${SCALED_VERSION} ${JSON.stringify(SCALED)} ${migrationTag()}`;

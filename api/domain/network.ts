@@ -22,6 +22,9 @@
 import { COMPONENT_KINDS, NON_NETWORK_KINDS, type ComponentKind } from './words';
 
 /** One two-terminal part (or tie) of the chassis network. */
+/** Removals remembered per factored network (a chassis has a few hundred parts). */
+const REMOVAL_MEMO_MAX = 4096;
+
 export interface NetworkEdge {
   id: string;
   a: string;
@@ -174,6 +177,8 @@ export class ChassisNetwork {
   private readonly factor: Float64Array;
   /** pivots D_k. */
   private readonly pivots: Float64Array;
+  /** Memo of `removal` (callers must not mutate the answers). */
+  private readonly removals = new Map<string, PartRemoval>();
   private probeCache: { sa: number; sb: number; y: Float64Array } | null = null;
 
   constructor(edges: readonly NetworkEdge[], options: NetworkOptions = {}) {
@@ -402,6 +407,18 @@ export class ChassisNetwork {
    * a zero-ohm part or one so nearly a cut edge that the downdate would lose digits.
    */
   removal(edgeId: string, a: string, b: string): PartRemoval {
+    // A factored network never changes: each (part, probes) is worked out once. The bench grid
+    // asks for the same part's removal for every reading of it (the implied value of each).
+    const key = `${edgeId}\u0000${a}\u0000${b}`;
+    const known = this.removals.get(key);
+    if (known !== undefined) return known;
+    const answer = this.removalFresh(edgeId, a, b);
+    if (this.removals.size >= REMOVAL_MEMO_MAX) this.removals.clear();
+    this.removals.set(key, answer);
+    return answer;
+  }
+
+  private removalFresh(edgeId: string, a: string, b: string): PartRemoval {
     const i = this.edgeAt(edgeId, 'partId');
     const e = this.edges[i];
     const sa = this.superNode(a, 'from');
