@@ -15,7 +15,8 @@ import { createReadStream, existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import pg from 'pg';
 import { ConfigError, loadConfig } from '../api/config';
-import { FsStorage, storageFromConfig, type Storage } from '../api/storage/index';
+import { FsStorage } from '../api/storage/fs-storage';
+import type { Storage } from '../api/storage/storage';
 import { chooseDataDir, findPgBin, portInUse, PROJECT_ROOT, startCluster, stopCluster, type Cluster } from './cluster';
 
 export const ARCHIVE_FORMAT = 'driftmark-backup';
@@ -156,19 +157,25 @@ export const dataFolder = (): string => chooseDataDir();
  * The uploads' storage: an explicit folder (`--uploads DIR`), else what the settings say
  * (STORAGE=fs: `<data folder>/uploads`; STORAGE=s3: the S3_* bucket).
  */
-export function uploadsStorage(dataDir: string, uploadsDir?: string): Storage {
+export async function uploadsStorage(dataDir: string, uploadsDir?: string): Promise<Storage> {
   if (uploadsDir) return new FsStorage(uploadsDir);
+  let config;
   try {
     // The JWT secret plays no part here: a stand-in keeps loadConfig from writing one.
-    const config = loadConfig({ ...process.env, JWT_SECRET: process.env.JWT_SECRET || 'x'.repeat(32) }, { dataDir, appDistDir: '' });
-    return storageFromConfig(config);
+    config = loadConfig({ ...process.env, JWT_SECRET: process.env.JWT_SECRET || 'x'.repeat(32) }, { dataDir, appDistDir: '' });
   } catch (e) {
     if (e instanceof ConfigError) throw new BackupError(e.message);
     throw e;
   }
+  // As api/storage storageFromConfig; the S3 SDK is loaded only when it is used.
+  if (config.storage === 's3' && config.s3) return new (await import('../api/storage/s3-storage')).S3Storage(config.s3);
+  return new FsStorage(join(dataDir, 'uploads'));
 }
 
 export const describeStorage = (s: Storage): string => (s instanceof FsStorage ? `the folder ${s.root}` : `the S3 bucket ${(s as { settings?: { bucket: string } }).settings?.bucket ?? ''}`);
+
+/** Closes an S3 client (a folder has nothing to close). */
+export const closeStorage = (s: Storage): void => (s as { close?: () => void }).close?.();
 
 /** `--name value`, `--name=value`, `--flag` and positionals; unknown options are refused. */
 export function parseArgs(argv: string[], known: { values: string[]; flags: string[] }): { values: Record<string, string>; flags: Set<string>; positionals: string[] } {

@@ -9,7 +9,6 @@
  * and `pg_dump --snapshot` both read that snapshot), and the uploads are copied after it, so every
  * file a dumped row names is in the archive (uploads are stored before their row commits).
  */
-import { ListObjectsV2Command } from '@aws-sdk/client-s3';
 import { randomBytes } from 'node:crypto';
 import { createWriteStream, existsSync } from 'node:fs';
 import { copyFile, link, mkdir, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
@@ -18,12 +17,15 @@ import { pipeline } from 'node:stream/promises';
 import { fileURLToPath } from 'node:url';
 import pg from 'pg';
 import * as tar from 'tar';
-import { FsStorage, S3Storage, type Storage } from '../api/storage/index';
+import { FsStorage } from '../api/storage/fs-storage';
+import type { S3Storage } from '../api/storage/s3-storage';
+import type { Storage } from '../api/storage/storage';
 import {
   appInfo,
   ARCHIVE_FORMAT,
   ARCHIVE_FORMAT_VERSION,
   BackupError,
+  closeStorage,
   connectionOf,
   dataFolder,
   describeStorage,
@@ -76,6 +78,7 @@ async function fsKeys(root: string): Promise<string[]> {
 }
 
 async function s3Keys(s: S3Storage): Promise<string[]> {
+  const { ListObjectsV2Command } = await import('@aws-sdk/client-s3');
   const keys: string[] = [];
   let token: string | undefined;
   do {
@@ -88,7 +91,7 @@ async function s3Keys(s: S3Storage): Promise<string[]> {
 
 /** Copies every upload into `<staging>/uploads/<key>` (a hard link for a folder when it can). */
 async function stageUploads(storage: Storage, staging: string): Promise<UploadEntry[]> {
-  const keys = storage instanceof FsStorage ? await fsKeys(storage.root) : storage instanceof S3Storage ? await s3Keys(storage) : [];
+  const keys = storage instanceof FsStorage ? await fsKeys(storage.root) : storage.kind === 's3' ? await s3Keys(storage as S3Storage) : [];
   const items: UploadEntry[] = [];
   for (const key of keys) {
     const target = join(staging, UPLOADS_DIR, ...key.split('/'));
@@ -176,7 +179,7 @@ async function main(): Promise<void> {
   }
   const say = (s: string) => console.log(`[driftmark] ${s}`);
   const dataDir = dataFolder();
-  const storage = uploadsStorage(dataDir, args.values.uploads);
+  const storage = await uploadsStorage(dataDir, args.values.uploads);
   const out = args.values.out ?? join(dataDir, 'backups', defaultArchiveName());
   const target = await openTarget({ dataDir, mustExist: true, log: say });
   try {
@@ -189,7 +192,7 @@ async function main(): Promise<void> {
     );
   } finally {
     target.release();
-    if (storage instanceof S3Storage) storage.close();
+    closeStorage(storage);
   }
 }
 

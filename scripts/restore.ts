@@ -20,12 +20,13 @@ import { join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import pg from 'pg';
 import * as tar from 'tar';
-import { S3Storage, type Storage } from '../api/storage/index';
+import type { Storage } from '../api/storage/storage';
 import {
   applicationTables,
   ARCHIVE_FORMAT,
   ARCHIVE_FORMAT_VERSION,
   BackupError,
+  closeStorage,
   connectionOf,
   dataFolder,
   describeStorage,
@@ -205,7 +206,7 @@ async function main(): Promise<void> {
   }
   const say = (s: string) => console.log(`[driftmark] ${s}`);
   const dataDir = dataFolder();
-  const storage = uploadsStorage(dataDir, args.values.uploads);
+  const storage = await uploadsStorage(dataDir, args.values.uploads);
   let target: Target | null = null;
   // The archive is checked before any cluster is made or started.
   const open = async () => {
@@ -222,7 +223,7 @@ async function main(): Promise<void> {
     );
   } finally {
     (target as Target | null)?.release();
-    if (storage instanceof S3Storage) storage.close();
+    closeStorage(storage);
   }
 }
 
