@@ -116,8 +116,9 @@ const TOKEN_STALE = 'Sign in to continue: the access token is missing, expired o
 /** The caller as the other use cases take it: the account read once (a cold cache, or a miss). */
 async function actorOf(tx: Tx, caller: VerifiedClaims): Promise<Actor> {
   const u = await findUserById(tx, caller.userId);
+  // Deactivation also bumps the token version: say "deactivated" first, as the other guards do.
+  if (u && !u.active) throw unauthorized(ACCOUNT_DEACTIVATED, 'account-deactivated');
   if (!u || u.tokenVersion !== caller.tokenVersion) throw unauthorized(TOKEN_STALE);
-  if (!u.active) throw unauthorized(ACCOUNT_DEACTIVATED, 'account-deactivated');
   return { id: u.id, roles: u.roles };
 }
 
