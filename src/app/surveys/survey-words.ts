@@ -78,8 +78,9 @@ export function driftText(pct: number | null): string {
   return `${sign}${Math.abs(pct).toFixed(1)} %`;
 }
 
+/** A computed value (an expectation, an implied value, an interval's end) to three figures, or a dash. */
 export function ohmsOrDash(ohms: number | null | undefined): string {
-  return ohms === null || ohms === undefined || !Number.isFinite(ohms) ? '—' : formatOhms(ohms);
+  return ohms === null || ohms === undefined || !Number.isFinite(ohms) ? '—' : formatOhms(ohms === 0 ? 0 : +ohms.toPrecision(3));
 }
 
 /** `−10 % / +10 %`, or `±10 %` when symmetric. */

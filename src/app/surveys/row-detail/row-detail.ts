@@ -7,6 +7,7 @@ import { VERDICT_LABELS, type Verdict } from '@domain/words';
 import { SocketView } from '../../shared/socket-view/socket-view';
 import { VerdictBadge } from '../../shared/verdict-badge/verdict-badge';
 import { SurveySession, type RowState } from '../survey-session';
+import { formatOhms } from '@domain/notation';
 import { ADVICE_WORDS, METHOD_WORDS, STATE_WORDS, bandText, driftText, ohmsOrDash } from '../survey-words';
 
 const REASON_WORDS: Readonly<Record<string, string>> = {
@@ -90,8 +91,8 @@ export class RowDetail {
     const m = this.session.view()?.survey.meter?.profile;
     if (!m) return [];
     return m.kind === 'digital'
-      ? m.ranges.map((r, i) => ({ index: i, label: `${i + 1}: ${ohmsOrDash(r.fullScaleOhms)} full scale` }))
-      : m.ranges.map((r, i) => ({ index: i, label: `${i + 1}: centre ${ohmsOrDash(r.centreOhms)}` }));
+      ? m.ranges.map((r, i) => ({ index: i, label: `${i + 1}: ${formatOhms(r.fullScaleOhms)} full scale` }))
+      : m.ranges.map((r, i) => ({ index: i, label: `${i + 1}: centre ${formatOhms(r.centreOhms)}` }));
   });
   protected readonly options = computed(() => this.session.nextOptions().get(this.state().row.testPointKey) ?? { rangeIndex: null, note: '' });
 

@@ -57,7 +57,7 @@ export function pointText(p: HistoryPoint): string {
       @if (h.parts.length === 0) {
         <p class="empty">No history yet: complete surveys build it.</p>
       }
-      @for (part of h.parts; track part.componentKey + '/' + part.instance) {
+      @for (part of byDrift(h.parts); track part.componentKey + '/' + part.instance) {
         <section class="part" [attr.aria-labelledby]="'part-' + part.componentKey + '-' + part.instance">
           <h3 [id]="'part-' + part.componentKey + '-' + part.instance">
             {{ part.ref }}
@@ -206,6 +206,12 @@ export class HistorySection implements OnInit {
   protected readonly error = signal<string | null>(null);
   /** Oldest first: "before" defaults to the oldest, "after" to the newest. */
   protected readonly surveys = computed(() => [...this.set().surveys].sort((x, y) => x.startedAt.localeCompare(y.startedAt)));
+
+  /** The parts that drifted most come first (largest |drift| of any point), then the template's order. */
+  protected byDrift(parts: readonly PartInstance[]): PartInstance[] {
+    const most = (p: PartInstance) => Math.max(0, ...p.points.map((x) => (x.driftPct === null ? 0 : Math.abs(x.driftPct))));
+    return parts.map((p, i) => ({ p, i, m: most(p) })).sort((a, b) => b.m - a.m || a.i - b.i).map((x) => x.p);
+  }
   protected readonly a = signal<number | null>(null);
   protected readonly b = signal<number | null>(null);
   protected readonly comparison = signal<SurveyCompare | null>(null);
