@@ -32,7 +32,7 @@ import type { Outbox } from '../api/mail/outbox';
 import { createTemplate, publish, share } from '../api/templates/templates.use-cases';
 import { findPgBin, portInUse, startCluster, stopCluster, type Cluster } from '../scripts/cluster';
 import { runMigrations } from '../scripts/migrate';
-import { APP_DIST, buildApp } from '../scripts/app-build';
+import { APP_DIST, appBuildIsStale, buildApp } from '../scripts/app-build';
 import { ChassisBuilder } from '../seeds/chassis/builder';
 import { DEMO_DIGITAL_METER } from '../seeds/sets';
 import { DEMO_PASSWORD, seedDemo } from '../seeds/seed';
@@ -359,7 +359,7 @@ export async function runSurvey(emit: (f: Figure) => void, opts: { freshScaled?:
     const saveId = await newSurvey();
     const keyId = await newSurvey();
     progress('survey: the app build (only when stale), for the browser figure');
-    buildApp(progress);
+    if (appBuildIsStale()) buildApp(progress, true);
 
     child = fork(join(HERE, 'api-server.ts'), [], {
       execArgv: ['--import', 'tsx'],

@@ -23,11 +23,12 @@ export function appBuildIsStale(): boolean {
   return SOURCES.some((s) => newestMtime(join(PROJECT_ROOT, s)) > built);
 }
 
-export function buildApp(log: (s: string) => void = console.log): void {
+/** Runs `ng build`; `toStderr` sends the build's own output to stderr (the bench keeps stdout for its figures). */
+export function buildApp(log: (s: string) => void = console.log, toStderr = false): void {
   log('Building the Angular app (ng build)…');
   const r = spawnSync(process.execPath, [join(PROJECT_ROOT, 'node_modules', '@angular', 'cli', 'bin', 'ng.js'), 'build'], {
     cwd: PROJECT_ROOT,
-    stdio: 'inherit',
+    stdio: toStderr ? ['ignore', process.stderr, process.stderr] : 'inherit',
     env: { ...process.env, NG_CLI_ANALYTICS: 'false' },
   });
   if (r.status !== 0) throw new Error('ng build failed (see above).');
