@@ -186,17 +186,30 @@ export async function currentValuesOf(tx: Tx, surveyId: number): Promise<{ testP
   return r.rows[0]?.list ?? [];
 }
 
-/** The readings of several surveys (one query), by survey id. */
+/** The readings of several surveys (one query, one JSON document as readingsOf), by survey id. */
 export async function readingsOfSurveys(tx: Tx, surveyIds: number[]): Promise<Map<number, ReadingRecord[]>> {
   const out = new Map<number, ReadingRecord[]>(surveyIds.map((id) => [id, []]));
   if (!surveyIds.length) return out;
-  const rows = await tx
-    .select(readingColumns)
-    .from(readings)
-    .leftJoin(enteredByUser, eq(enteredByUser.id, readings.enteredBy))
-    .where(sql`${readings.surveyId} IN (${sql.join(surveyIds.map((i) => sql`${i}`), sql`, `)})`)
-    .orderBy(asc(readings.id));
-  for (const r of rows) out.get(r.surveyId)!.push(readingRecordOf(r as ReadingRow));
+  const r = await tx.execute<{ list: (ReadingRecord & { surveyId: number })[] | null }>(sql`
+    SELECT json_agg(json_build_object(
+      'surveyId', r.survey_id,
+      'id', r.id, 'testPointKey', r.test_point_key, 'clientKey', r.client_key, 'followsReadingId', r.follows_reading_id,
+      'text', r.text, 'state', r.state, 'ohms', r.ohms, 'method', r.method, 'liftedEnd', r.lifted_end, 'rangeIndex', r.range_index,
+      'note', r.note, 'prediction', r.prediction,
+      'enteredBy', CASE WHEN r.entered_by IS NULL THEN NULL ELSE json_build_object('id', r.entered_by, 'name', coalesce(u.name, '')) END,
+      'takenAt', to_char(r.taken_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"'),
+      'version', r.version,
+      'updatedAt', to_char(r.updated_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')
+    ) ORDER BY r.id) AS list
+    FROM readings r LEFT JOIN users u ON u.id = r.entered_by
+    WHERE r.survey_id IN (${sql.join(
+      surveyIds.map((i) => sql`${i}`),
+      sql`, `,
+    )})`);
+  for (const rec of r.rows[0]?.list ?? []) {
+    const { surveyId, ...reading } = rec;
+    out.get(surveyId)?.push(reading);
+  }
   return out;
 }
 
