@@ -7,7 +7,7 @@
  * Served bytes: `nosniff` always; images and PDFs `inline`, anything else `attachment`; a
  * content security policy of their own replaces the app's (see SERVE_POLICY).
  */
-import type { JSONSchemaType } from 'ajv';
+import type { JSONSchemaType, ValidateFunction } from 'ajv';
 import type { Request, RequestHandler, Response } from 'express';
 import multer from 'multer';
 import { pipeline } from 'node:stream/promises';
@@ -167,6 +167,32 @@ export async function sendStored(res: Response, object: StoredObject, { mediaTyp
 const templateId = (req: Request) => Number(req.params.id);
 const fileId = (req: Request) => Number(req.params.fileId);
 
+/**
+ * The multipart fields and file of an upload, checked: unknown fields, the caption, the route's
+ * other field (`other`: its name and the message for a bad value), a missing or empty file. The
+ * original name loses control characters and is kept to 200 characters (`fallback` when empty).
+ */
+export function checkedUpload<F extends { caption?: string }>(
+  req: Request,
+  check: ValidateFunction<F>,
+  opts: { fields: string; other: string; otherMessage: string; fallback: string },
+): { fields: F; file: Express.Multer.File; originalName: string } {
+  const fields = { ...(req.body as Record<string, string>) } as unknown as F;
+  if (!check(fields)) {
+    const e = check.errors![0];
+    if (e.keyword === 'additionalProperties') {
+      const field = String((e.params as { additionalProperty: string }).additionalProperty);
+      throw badRequest(`"${field}" is not a field this upload takes (${opts.fields}).`, field, 'validation');
+    }
+    if (e.instancePath === '/caption') throw badRequest(captionMessage(e.keyword), 'caption', 'validation');
+    throw badRequest(opts.otherMessage, opts.other, 'validation');
+  }
+  if (!req.file) throw badRequest('No file: send it in the multipart field "file".', 'file', 'no-file');
+  if (req.file.size === 0) throw badRequest('The file is empty.', 'file', 'empty-file');
+  const originalName = (req.file.originalname || opts.fallback).replace(/[\u0000-\u001f\u007f]/g, '').slice(0, 200) || opts.fallback;
+  return { fields, file: req.file, originalName };
+}
+
 export function fileRoutes(ctx: Ctx): RouteDef[] {
   const uploadPath = validate({ params: { id: ID } });
   const validateChange = withCaptionInWords(validate({ body: changeBody, params: { id: ID, fileId: ID } }));
@@ -194,20 +220,13 @@ export function fileRoutes(ctx: Ctx): RouteDef[] {
       validate: (req, res, next) => uploadPath(req, res, (err?: unknown) => (err ? next(err) : multipartOnly(req, res, next))),
       before: [ownerGate, uploadParser(ctx)],
       handler: async (req, res) => {
-        const fields: UploadFields = { ...(req.body as Record<string, string>) };
-        if (!uploadFields(fields)) {
-          const e = uploadFields.errors![0];
-          if (e.keyword === 'additionalProperties') {
-            const field = String((e.params as { additionalProperty: string }).additionalProperty);
-            throw badRequest(`"${field}" is not a field this upload takes (file, stageKey, caption).`, field, 'validation');
-          }
-          if (e.instancePath === '/caption') throw badRequest(captionMessage(e.keyword), 'caption', 'validation');
-          throw badRequest(`"stageKey" must be a stage key such as st-audio.`, 'stageKey', 'validation');
-        }
-        if (!req.file) throw badRequest('No file: send it in the multipart field "file".', 'file', 'no-file');
-        if (req.file.size === 0) throw badRequest('The file is empty.', 'file', 'empty-file');
-        const originalName = (req.file.originalname || 'file').replace(/[\u0000-\u001f\u007f]/g, '').slice(0, 200) || 'file';
-        res.status(201).json(await files.uploadFile(ctx, req.signedIn!, templateId(req), { bytes: req.file.buffer, originalName, stageKey: fields.stageKey, caption: fields.caption }));
+        const { fields, file, originalName } = checkedUpload(req, uploadFields, {
+          fields: 'file, stageKey, caption',
+          other: 'stageKey',
+          otherMessage: '"stageKey" must be a stage key such as st-audio.',
+          fallback: 'file',
+        });
+        res.status(201).json(await files.uploadFile(ctx, req.signedIn!, templateId(req), { bytes: file.buffer, originalName, stageKey: fields.stageKey, caption: fields.caption }));
       },
     },
     {

@@ -11,7 +11,7 @@
 import type { JSONSchemaType } from 'ajv';
 import type { Request, RequestHandler } from 'express';
 import type { Ctx } from '../context';
-import { CAPTION_MAX, captionMessage, multipartOnly, sendStored, uploadParser, withCaptionInWords } from '../files/files.routes';
+import { CAPTION_MAX, checkedUpload, multipartOnly, sendStored, uploadParser, withCaptionInWords } from '../files/files.routes';
 import { downloadName, THUMBNAIL_TYPE } from '../files/media';
 import { badRequest } from '../http/errors';
 import type { RouteDef } from '../http/route-table';
@@ -80,22 +80,15 @@ export function setFileRoutes(ctx: Ctx): RouteDef[] {
       validate: (req, res, next) => uploadPath(req, res, (err?: unknown) => (err ? next(err) : multipartOnly(req, res, next))),
       before: [setGate, uploadParser(ctx)],
       handler: async (req, res) => {
-        const fields: UploadFields = { ...(req.body as Record<string, string>) };
-        if (!uploadFields(fields)) {
-          const e = uploadFields.errors![0];
-          if (e.keyword === 'additionalProperties') {
-            const field = String((e.params as { additionalProperty: string }).additionalProperty);
-            throw badRequest(`"${field}" is not a field this upload takes (file, caption, readingId).`, field, 'validation');
-          }
-          if (e.instancePath === '/caption') throw badRequest(captionMessage(e.keyword), 'caption', 'validation');
-          throw badRequest('"readingId" must be the id of a reading (a positive whole number).', 'readingId', 'validation');
-        }
-        if (!req.file) throw badRequest('No file: send it in the multipart field "file".', 'file', 'no-file');
-        if (req.file.size === 0) throw badRequest('The file is empty.', 'file', 'empty-file');
-        const originalName = (req.file.originalname || 'photo').replace(/[\u0000-\u001f\u007f]/g, '').slice(0, 200) || 'photo';
+        const { fields, file, originalName } = checkedUpload(req, uploadFields, {
+          fields: 'file, caption, readingId',
+          other: 'readingId',
+          otherMessage: '"readingId" must be the id of a reading (a positive whole number).',
+          fallback: 'photo',
+        });
         const readingId = fields.readingId !== undefined ? Number(fields.readingId) : undefined;
         if (readingId !== undefined && !Number.isSafeInteger(readingId)) throw badRequest('"readingId" is out of range.', 'readingId', 'validation');
-        res.status(201).json(await photos.uploadSetFile(ctx, req.signedIn!, setId(req), { bytes: req.file.buffer, originalName, caption: fields.caption, readingId }));
+        res.status(201).json(await photos.uploadSetFile(ctx, req.signedIn!, setId(req), { bytes: file.buffer, originalName, caption: fields.caption, readingId }));
       },
     },
     {
