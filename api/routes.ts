@@ -1,5 +1,7 @@
 /** The API's route table, assembled from each resource's rows. */
+import { attemptRoutes } from './attempts/attempts.routes';
 import { authRoutes } from './auth/auth.routes';
+import { classRoutes } from './classes/classes.routes';
 import { calcRoutes } from './calc/calc.routes';
 import type { Ctx } from './context';
 import { fileRoutes } from './files/files.routes';
@@ -17,5 +19,5 @@ import { adminRoutes } from './users/users.routes';
 import type pg from 'pg';
 
 export function buildRouteTable(ctx: Ctx, pool: pg.Pool): RouteDef[] {
-  return [...healthRoutes(pool), ...authRoutes(ctx), ...adminRoutes(ctx), ...settingsRoutes(ctx), ...calcRoutes(ctx.config), ...tubeTypeRoutes(ctx), ...templateRoutes(ctx), ...fileRoutes(ctx), ...meterProfileRoutes(ctx), ...setRoutes(ctx), ...setFileRoutes(ctx), ...surveyRoutes(ctx), ...recordRoutes(ctx)];
+  return [...healthRoutes(pool), ...authRoutes(ctx), ...adminRoutes(ctx), ...settingsRoutes(ctx), ...calcRoutes(ctx.config), ...tubeTypeRoutes(ctx), ...templateRoutes(ctx), ...fileRoutes(ctx), ...meterProfileRoutes(ctx), ...setRoutes(ctx), ...setFileRoutes(ctx), ...surveyRoutes(ctx), ...recordRoutes(ctx), ...classRoutes(ctx), ...attemptRoutes(ctx)];
 }

@@ -1,3 +1,4 @@
 export * from './users';
 export * from './templates';
 export * from './sets';
+export * from './classes';

@@ -171,10 +171,16 @@ export const surveys = pgTable(
     jointChecks: jsonb('joint_checks').notNull().default(sql`'{}'::jsonb`),
     /** Classes issue: the assignment this survey answers (null outside a class). */
     assignmentId: integer('assignment_id'),
+    /** A returned assignment survey: the test points the student may re-measure (null: none open). */
+    remeasureKeys: text('remeasure_keys').array(),
     version: integer('version').notNull().default(1),
     ...timestamps,
   },
-  (t) => [index('surveys_set_idx').on(t.setId, t.createdAt), index('surveys_version_idx').on(t.templateVersionId)],
+  (t) => [
+    index('surveys_set_idx').on(t.setId, t.createdAt),
+    index('surveys_version_idx').on(t.templateVersionId),
+    index('surveys_assignment_idx').on(t.assignmentId, t.startedBy),
+  ],
 );
 
 /** One entry for a test point in a survey; several per test point (follow-ups, re-checks). */

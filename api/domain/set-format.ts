@@ -6,6 +6,7 @@
  * Dates travel as ISO 8601 strings. Ids are numbers.
  * Pure TypeScript: no framework or Node-only imports (the Angular app imports this module).
  */
+import type { Classwork } from './class-format';
 import type { MeterProfile } from './meter';
 import type { Nominal, TemplateDocument, TubeTypeRecord } from './template-format';
 import type { AcceptanceRule, VerdictResult } from './verdict';
@@ -308,6 +309,8 @@ export interface SurveyView {
   amendments: AmendmentRecord[];
   /** Test point keys in the order of the survey this one carried over (empty: the template's order). */
   order: string[];
+  /** A class survey (assignment): the assignment's options and the caller's place; null outside a class. */
+  classwork?: Classwork | null;
   /** The previous survey's readings of the same set, shown only after a new value is keyed. */
   previous: { surveyId: number; startedAt: string; readings: { testPointKey: string; text: string; state: ReadingState; ohms: number | null }[] } | null;
 }
