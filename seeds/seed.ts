@@ -9,6 +9,7 @@ import { parseArgs } from 'node:util';
 import { createDatabase } from '../api/db';
 import type { Db } from '../api/db';
 import { chassisTemplates, users, type Role } from '../schema/index';
+import { seedDemoClass } from './classes';
 import { seedDemoSets } from './sets';
 import { seedDemoTemplates } from './templates';
 
@@ -49,6 +50,7 @@ export async function seedDemo(db: Db, env: NodeJS.ProcessEnv = process.env): Pr
   const [author] = await db.select({ id: users.id }).from(users).where(sql`lower(${users.email}) = ${DEMO_ACCOUNTS[1].email}`);
   if (templates === 0 && author) await seedDemoTemplates(db);
   await seedDemoSets(db);
+  await seedDemoClass(db, DEMO_PASSWORD);
   return created;
 }
 

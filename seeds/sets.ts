@@ -23,7 +23,7 @@ import type { SetDeviation, SurveyConditions } from '../api/domain/set-format';
 import { parseReadingText, SurveyGrid } from '../api/domain/survey-grid';
 import type { TemplateDocument, TubeTypeRecord } from '../api/domain/template-format';
 import { DEFAULT_RULE, type AcceptanceRule } from '../api/domain/verdict';
-import type { Method, SurveyPurpose } from '../api/domain/words';
+import type { Method, SurveyPurpose, SurveyState } from '../api/domain/words';
 import {
   bringUpEntries,
   chassisTemplates,
@@ -85,13 +85,16 @@ export function benchText(ohms: number): string {
   return formatCode(+rounded.toPrecision(3));
 }
 
-interface PlannedReading {
+export interface PlannedReading {
   testPointKey: string;
   text: string;
   method: Method;
   liftedEnd?: 0 | 1;
   follows?: string;
   note?: string;
+  /** Predict-first assignments: what the student predicted before measuring. */
+  prediction?: string;
+  rangeIndex?: number;
 }
 
 /**
@@ -99,7 +102,7 @@ interface PlannedReading {
  * parts at `actual` values (component key → ohms): the survey grid's in-circuit expectation of a
  * network carrying those values, scattered by up to ±`scatterPct` and rounded to three figures.
  */
-function readingsFor(
+export function readingsFor(
   doc: TemplateDocument,
   types: readonly TubeTypeRecord[],
   actual: Record<string, number>,
@@ -124,18 +127,18 @@ function readingsFor(
   return out;
 }
 
-function conditionsOf(doc: TemplateDocument, extra: Partial<SurveyConditions> = {}): SurveyConditions {
+export function conditionsOf(doc: TemplateDocument, extra: Partial<SurveyConditions> = {}): SurveyConditions {
   return { tubesIn: doc.conditions.tubesIn, speakerConnected: doc.conditions.speakerConnected, controls: doc.conditions.controls, ambientC: 21, note: '', ...extra };
 }
 
-interface DemoTemplate {
+export interface DemoTemplate {
   templateId: number;
   versionId: number;
   versionNumber: number;
   doc: TemplateDocument;
 }
 
-async function demoTemplate(db: Db, model: string): Promise<DemoTemplate | null> {
+export async function demoTemplate(db: Db, model: string): Promise<DemoTemplate | null> {
   const [t] = await db.select({ id: chassisTemplates.id, latest: chassisTemplates.latestPublishedNumber }).from(chassisTemplates).where(eq(chassisTemplates.model, model));
   if (!t || t.latest === null) return null;
   const [v] = await db
@@ -145,12 +148,12 @@ async function demoTemplate(db: Db, model: string): Promise<DemoTemplate | null>
   return { templateId: t.id, versionId: v.id, versionNumber: t.latest, doc: v.content as TemplateDocument };
 }
 
-const keyOf = (doc: TemplateDocument, ref: string): string => {
+export const keyOf = (doc: TemplateDocument, ref: string): string => {
   const c = doc.components.find((x) => x.ref === ref);
   if (!c) throw new Error(`demo chassis ${doc.chassis.model} has no ${ref}`);
   return c.key;
 };
-const tpOf = (doc: TemplateDocument, ref: string): string => {
+export const tpOf = (doc: TemplateDocument, ref: string): string => {
   const key = keyOf(doc, ref);
   const tp = doc.testPoints.find((t) => t.kind === 'component-check' && t.componentKey === key);
   if (!tp) throw new Error(`demo chassis ${doc.chassis.model} has no check of ${ref}`);
@@ -160,7 +163,7 @@ const tpOf = (doc: TemplateDocument, ref: string): string => {
 let clientKeySeq = 0;
 const clientKey = () => `seed${Date.now().toString(36)}${(clientKeySeq++).toString(36)}${randomBytes(6).toString('hex')}`;
 
-interface SurveyPlan {
+export interface SurveyPlan {
   setId: number;
   t: DemoTemplate;
   by: number;
@@ -172,10 +175,14 @@ interface SurveyPlan {
   jointChecks?: string[];
   rule?: AcceptanceRule;
   carriedFrom?: number | null;
+  /** Overrides `complete` (class surveys: submitted, returned, accepted). */
+  state?: SurveyState;
+  assignmentId?: number | null;
+  remeasureKeys?: string[] | null;
 }
 
 /** Inserts a survey and its readings; returns the survey id and reading ids by test point key (the last one). */
-async function insertSurvey(db: Db, p: SurveyPlan): Promise<{ id: number; readingIds: Map<string, number> }> {
+export async function insertSurvey(db: Db, p: SurveyPlan): Promise<{ id: number; readingIds: Map<string, number> }> {
   const at = p.at;
   const jointChecks = Object.fromEntries((p.jointChecks ?? []).map((k) => [k, { by: p.by, at: at.toISOString() }]));
   const [s] = await db
@@ -185,7 +192,9 @@ async function insertSurvey(db: Db, p: SurveyPlan): Promise<{ id: number; readin
       templateVersionId: p.t.versionId,
       versionNumber: p.t.versionNumber,
       purpose: p.purpose,
-      state: p.complete ? 'complete' : 'draft',
+      state: p.state ?? (p.complete ? 'complete' : 'draft'),
+      assignmentId: p.assignmentId ?? null,
+      remeasureKeys: p.remeasureKeys ?? null,
       meterProfileId: p.meter.id,
       meter: { name: p.meter.name, profile: p.meter.profile, checkDate: p.meter.checkDate },
       rule: p.rule ?? DEFAULT_RULE,
@@ -218,6 +227,8 @@ async function insertSurvey(db: Db, p: SurveyPlan): Promise<{ id: number; readin
         method: r.method,
         liftedEnd: r.liftedEnd ?? null,
         note: r.note ?? '',
+        prediction: r.prediction ?? null,
+        rangeIndex: r.rangeIndex ?? null,
         enteredBy: p.by,
         takenAt: taken,
         createdAt: taken,

@@ -2,10 +2,12 @@ import { count } from 'drizzle-orm';
 import pg from 'pg';
 import { createDatabase, type Database } from '../../api/db';
 import { runMigrations } from '../../scripts/migrate';
-import { and, asc, eq } from 'drizzle-orm';
+import { and, asc, eq, inArray, isNotNull } from 'drizzle-orm';
+import { compareReadings, feedbackHints } from '../../api/domain/review';
 import { SurveyGrid } from '../../api/domain/survey-grid';
 import type { TemplateDocument, TubeTypeRecord } from '../../api/domain/template-format';
-import { chassisTemplates, gateSignatures, liftedLeads, partsRecord, provenanceLabels, readings, sets, surveys, templateVersions, tubeTypes, users } from '../../schema/index';
+import { assignments, attempts, classes, classMembers, competencySignoffs, notifications, readingComments, reviews, chassisTemplates, gateSignatures, liftedLeads, partsRecord, provenanceLabels, readings, sets, surveys, templateVersions, tubeTypes, users } from '../../schema/index';
+import { DEMO_CLASS_STUDENTS } from '../../seeds/classes';
 import { createAdmin, DEMO_ACCOUNTS, seedDemo, SeedRefused } from '../../seeds/seed';
 
 describe('The demo seed', () => {
@@ -47,7 +49,8 @@ describe('The demo seed', () => {
     expect(await seedDemo(database.db, { NODE_ENV: 'development' })).toBe(DEMO_ACCOUNTS.length);
     expect(await seedDemo(database.db, { NODE_ENV: 'development' })).toBe(0);
     const emails = (await database.db.select().from(users)).map((u) => u.email).sort();
-    expect(emails).toEqual(['admin@driftmark.example', 'author@driftmark.example', 'instructor@driftmark.example', 'student@driftmark.example', 'tech@driftmark.example']);
+    // The five accounts, and the demo class's three other students (seeds/classes.ts) once the templates exist.
+    expect(emails.filter((e) => !DEMO_CLASS_STUDENTS.some((s) => s.email === e))).toEqual(['admin@driftmark.example', 'author@driftmark.example', 'instructor@driftmark.example', 'student@driftmark.example', 'tech@driftmark.example']);
   });
 
   it('adds the demo templates to a development database made before templates existed (accounts, no template)', async () => {
@@ -73,7 +76,8 @@ describe('The demo seed', () => {
 
   it('seeds the demo sets once: three surveys with drift and a replacement, a lead lifted mid-survey, a complete set with its label', async () => {
     // Runs after the accounts and templates exist (the tests above).
-    const all = await database.db.select().from(sets).orderBy(asc(sets.id));
+    // The demo class's training sets (owned by the instructor) are checked below.
+    const all = (await database.db.select().from(sets).orderBy(asc(sets.id))).filter((x) => !x.label.startsWith('Trainer'));
     expect(all.map((x) => x.label)).toEqual(['Holloway collection', 'Job 2611 — R. Anselm', 'Vellmar Museum of Sound']);
     const [kestrel, larkspur, museum] = all;
     const ks = await database.db.select().from(surveys).where(eq(surveys.setId, kestrel.id)).orderBy(asc(surveys.createdAt));
@@ -111,8 +115,83 @@ describe('The demo seed', () => {
     const signed = await database.db.select().from(gateSignatures).where(eq(gateSignatures.setId, museum.id));
     expect(signed.map((g) => g.itemKey)).toContain('first-power');
     expect(signed.length).toBeGreaterThan(4);
-    // Seeding again adds no set.
+    // Seeding again adds no set (three of the technician, two training sets of the class).
     await seedDemo(database.db, { NODE_ENV: 'development' });
-    expect((await database.db.select().from(sets)).length).toBe(3);
+    expect((await database.db.select().from(sets)).length).toBe(5);
+  });
+
+  it('seeds the demo class: an instructor, four students, one assignment reviewed (comments, a re-measure, a resubmission), one awaiting review with predictions', async () => {
+    const [klass, ...more] = await database.db.select().from(classes);
+    expect(more.length).toBe(0);
+    const members = await database.db.select().from(classMembers).where(eq(classMembers.classId, klass.id));
+    expect(members.length).toBe(4);
+    const [instructor] = await database.db.select().from(users).where(eq(users.id, klass.instructorId));
+    expect(instructor.roles).toContain('instructor');
+    const [a1, a2] = await database.db.select().from(assignments).where(eq(assignments.classId, klass.id)).orderBy(asc(assignments.id));
+    expect(a2.predictFirst).toBeTrue();
+    expect(a2.showVerdicts).toBeFalse();
+    // The reference surveys are ordinary surveys of the training sets, by the instructor.
+    for (const a of [a1, a2]) {
+      const [ref] = await database.db.select().from(surveys).where(eq(surveys.id, a.referenceSurveyId!));
+      expect(ref.assignmentId).toBeNull();
+      expect(ref.setId).toBe(a.setId);
+      expect(ref.startedBy).toBe(klass.instructorId);
+    }
+
+    // Assignment 1: Esi returned, re-measured, resubmitted late, accepted.
+    const [esi] = await database.db.select().from(users).where(eq(users.email, 'student@driftmark.example'));
+    const [esiSurvey] = await database.db.select().from(surveys).where(and(eq(surveys.assignmentId, a1.id), eq(surveys.startedBy, esi.id)));
+    expect(esiSurvey.state).toBe('accepted');
+    const tries = await database.db.select().from(attempts).where(eq(attempts.surveyId, esiSurvey.id)).orderBy(asc(attempts.number));
+    expect(tries.map((t) => t.number)).toEqual([1, 2]);
+    expect(tries[1].submittedAt.getTime()).toBeGreaterThan(a1.dueAt.getTime()); // late: derived from the due date
+    const decisions = await database.db.select().from(reviews).where(inArray(reviews.attemptId, tries.map((t) => t.id))).orderBy(asc(reviews.id));
+    expect(decisions.map((d) => d.decision)).toEqual(['returned', 'accepted']);
+    expect(decisions[0].remeasureKeys.length).toBe(1);
+    const comments = await database.db.select().from(readingComments).where(eq(readingComments.attemptId, tries[0].id));
+    expect(comments.length).toBe(2);
+
+    // The re-measure follows the first reading and agrees with the reference by E_n; the first reading earns the fingers hint.
+    const tp = decisions[0].remeasureKeys[0];
+    const [version] = await database.db.select().from(templateVersions).where(eq(templateVersions.id, a1.templateVersionId));
+    const doc = version.content as TemplateDocument;
+    const types = (await database.db.select().from(tubeTypes)) as unknown as TubeTypeRecord[];
+    const gridOf = (s: typeof esiSurvey) => new SurveyGrid({ document: doc, tubeTypes: types, deviations: [], meter: (s.meter as { profile: never }).profile, rule: s.rule as never, conditions: s.conditions as never });
+    const mine = await database.db.select().from(readings).where(and(eq(readings.surveyId, esiSurvey.id), eq(readings.testPointKey, tp))).orderBy(asc(readings.id));
+    expect(mine.length).toBe(2);
+    expect(mine[1].followsReadingId).toBe(mine[0].id);
+    const [refSurvey] = await database.db.select().from(surveys).where(eq(surveys.id, a1.referenceSurveyId!));
+    const [refReading] = await database.db.select().from(readings).where(and(eq(readings.surveyId, refSurvey.id), eq(readings.testPointKey, tp)));
+    const asGrid = (r: typeof refReading) => ({ ...r, liftedEnd: r.liftedEnd as 0 | 1 | null });
+    const evalMine = gridOf(esiSurvey).evaluate(asGrid(mine[1]));
+    const evalRef = gridOf(refSurvey).evaluate(asGrid(refReading));
+    const cmp = compareReadings(
+      { ...mine[1], verdict: evalMine.verdict, uncertaintyOhms: evalMine.uncertaintyOhms },
+      { ...refReading, verdict: evalRef.verdict, uncertaintyOhms: evalRef.uncertaintyOhms },
+      { conditionDifferences: [], sameMeter: false },
+    );
+    expect(cmp.agreement).toBe('agree');
+    const row = gridOf(esiSurvey).row(tp)!;
+    const expectedOhms = row.inCircuit?.expectedOhms ?? null;
+    expect(feedbackHints({ reading: mine[0], expectedOhms, meter: (esiSurvey.meter as { profile: never }).profile, predictionErrorPct: null })).toContain('fingers-across-probes');
+
+    // Assignment 2: two submissions awaiting review, Esi's draft with predictions, one student not started.
+    const a2Surveys = await database.db.select().from(surveys).where(eq(surveys.assignmentId, a2.id));
+    expect(a2Surveys.map((s) => s.state).sort()).toEqual(['draft', 'submitted', 'submitted']);
+    const a2Attempts = await database.db.select().from(attempts).where(eq(attempts.assignmentId, a2.id));
+    expect(a2Attempts.length).toBe(2);
+    expect((await database.db.select().from(reviews).where(inArray(reviews.attemptId, a2Attempts.map((t) => t.id)))).length).toBe(0);
+    const esiDraft = a2Surveys.find((s) => s.startedBy === esi.id)!;
+    expect(esiDraft.state).toBe('draft');
+    const predicted = await database.db.select().from(readings).where(and(eq(readings.surveyId, esiDraft.id), isNotNull(readings.prediction)));
+    expect(predicted.length).toBeGreaterThan(3);
+
+    // Competencies signed and notifications of the same events.
+    expect((await database.db.select().from(competencySignoffs).where(eq(competencySignoffs.studentId, esi.id))).length).toBe(3);
+    expect((await database.db.select().from(notifications).where(eq(notifications.userId, klass.instructorId))).length).toBeGreaterThan(0);
+
+    // Seeding again adds no class.
+    await seedDemo(database.db, { NODE_ENV: 'development' });
+    expect((await database.db.select().from(classes)).length).toBe(1);
   });
 });
