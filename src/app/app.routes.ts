@@ -42,6 +42,34 @@ export const routes: Routes = [
     loadChildren: () => import('./meters/meters.routes'),
   },
   {
+    path: 'classes',
+    canActivate: [signedIn],
+    loadChildren: () => import('./classes/classes.routes'),
+  },
+  {
+    path: 'assignments/:id',
+    title: 'Assignment · Driftmark',
+    canActivate: [signedIn],
+    loadComponent: () => import('./classes/assignment-page/assignment-page').then((m) => m.AssignmentPage),
+  },
+  {
+    path: 'attempts/:id/review',
+    title: 'Review · Driftmark',
+    canActivate: [signedIn],
+    loadComponent: () => import('./classes/review-page/review-page').then((m) => m.ReviewPage),
+  },
+  {
+    path: 'join/:token',
+    title: 'Join a class · Driftmark',
+    loadComponent: () => import('./classes/join-page/join-page').then((m) => m.JoinPage),
+  },
+  {
+    path: 'competencies',
+    title: 'My competencies · Driftmark',
+    canActivate: [signedIn],
+    loadComponent: () => import('./classes/competencies-page/competencies-page').then((m) => m.CompetenciesPage),
+  },
+  {
     path: 'p',
     loadChildren: () => import('./provenance/provenance.routes'),
   },

@@ -16,6 +16,15 @@ describe('navItemsFor', () => {
     expect(navItemsFor(false, new Set()).map((i) => i.link)).not.toContain('/templates');
   });
 
+  it('shows Classes to instructors, students and admins, never to a technician or author only', () => {
+    for (const role of ['instructor', 'student', 'admin'] as const) {
+      expect(navItemsFor(true, new Set([role])).map((i) => i.link)).toContain('/classes');
+    }
+    for (const role of ['technician', 'author'] as const) {
+      expect(navItemsFor(true, new Set([role])).map((i) => i.link)).not.toContain('/classes');
+    }
+  });
+
   it('shows a visitor only the public quick check', () => {
     expect(navItemsFor(false, new Set()).map((i) => i.link)).toEqual(['/calc']);
   });

@@ -15,6 +15,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { label: 'Sets', icon: 'radio', link: '/sets' },
   { label: 'Templates', icon: 'library_books', link: '/templates' },
   { label: 'Meters', icon: 'speed', link: '/meters' },
+  { label: 'Classes', icon: 'school', link: '/classes', roles: ['instructor', 'student', 'admin'] },
   { label: 'Users', icon: 'group', link: '/admin/users', roles: ['admin'] },
   { label: 'Settings', icon: 'settings', link: '/admin/settings', roles: ['admin'] },
   { label: 'Quick check', icon: 'calculate', link: '/calc', public: true },

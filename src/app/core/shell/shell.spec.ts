@@ -35,7 +35,7 @@ describe('Shell', () => {
     await fixture.whenStable();
     const el = fixture.nativeElement as HTMLElement;
     expect(el.querySelector('[data-test=user-name]')?.textContent?.trim()).toBe('Ada Voss');
-    expect(navLinks(el)).toEqual(['Home', 'Sets', 'Templates', 'Meters', 'Users', 'Settings', 'Quick check']);
+    expect(navLinks(el)).toEqual(['Home', 'Sets', 'Templates', 'Meters', 'Classes', 'Users', 'Settings', 'Quick check']);
 
     const loader = TestbedHarnessEnvironment.loader(fixture);
     await (await loader.getHarness(MatButtonHarness.with({ text: /Sign out/ }))).click();
