@@ -30,7 +30,7 @@ const INVITATION_DAYS = 14;
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
-async function issueSession(ctx: Ctx, user: repo.UserRow, familyId = randomUUID(), refreshToken = newOpaqueToken()): Promise<Session> {
+export async function issueSession(ctx: Ctx, user: repo.UserRow, familyId = randomUUID(), refreshToken = newOpaqueToken()): Promise<Session> {
   const expiresAt = new Date(Date.now() + ctx.config.auth.refreshTokenDays * 86400_000);
   await repo.insertRefreshToken(ctx.db, { userId: user.id, familyId, tokenHash: hashToken(refreshToken), expiresAt });
   return {
