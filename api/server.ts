@@ -10,6 +10,7 @@ import type { AddressInfo } from 'node:net';
 import { join } from 'node:path';
 import { pino, type Logger } from 'pino';
 import { createApp, linkBaseOf } from './app';
+import { scheduleDueReminders } from './classes/due-reminders';
 import { loadConfig, type AppConfig } from './config';
 import { createDatabase } from './db';
 import { startMailQueue } from './mail/outbox';
@@ -55,6 +56,15 @@ export async function startServer(opts: { config: AppConfig; databaseUrl: string
   const port = (server.address() as AddressInfo).port;
   const bound = { ...config, port };
   server.on('request', createApp({ config: bound, database, outbox: mail, log, storage: storageFromConfig(bound) }));
+  // Due-date reminders: a job of the mail queue every 15 minutes (one schedule however many processes).
+  try {
+    await scheduleDueReminders(mail.boss, { db: database.db, outbox: mail, linkBase: linkBaseOf(bound) }, { onError: (err) => log.warn({ err: err.message }, 'due reminders failed') });
+  } catch (e) {
+    server.close();
+    await mail.stop().catch(() => undefined);
+    await database.close().catch(() => undefined);
+    throw e;
+  }
   const url = linkBaseOf({ ...bound, publicBaseUrl: null });
   return {
     server,

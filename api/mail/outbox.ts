@@ -24,7 +24,9 @@ export interface MailQueue extends Outbox {
 
 /**
  * Starts pg-boss on the database and (unless `worker: false`) a worker that sends queued mail.
- * pg-boss keeps its own bookkeeping tables in the `pgboss` schema.
+ * pg-boss keeps its own bookkeeping tables in the `pgboss` schema. Its cron scheduling is on, so
+ * the same queue also runs scheduled jobs (the due-date reminders, api/classes/due-reminders.ts,
+ * scheduled by api/server.ts through `boss`).
  */
 export async function startMailQueue(opts: {
   databaseUrl: string;
@@ -34,7 +36,7 @@ export async function startMailQueue(opts: {
   onError: (err: Error) => void;
   pollingIntervalSeconds?: number;
 }): Promise<MailQueue> {
-  const boss = new PgBoss({ connectionString: opts.databaseUrl, max: 4, supervise: true, schedule: false });
+  const boss = new PgBoss({ connectionString: opts.databaseUrl, max: 4, supervise: true, schedule: true });
   // Without an 'error' listener a database outage would crash the process.
   boss.on('error', opts.onError);
   await boss.start();
