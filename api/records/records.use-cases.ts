@@ -184,8 +184,9 @@ export async function addPartsLine(ctx: Deps, user: Actor, setId: number, input:
     const reason = input.reason?.trim() ?? '';
     if (readingId === null && !reason) throw badRequest('Give the reading that prompted this line, or a reason (e.g. "replaced by policy").', 'reason', 'reason-required');
     if (readingId !== null) {
-      const [r] = await tx.select({ setId: surveys.setId }).from(readings).innerJoin(surveys, eq(surveys.id, readings.surveyId)).where(eq(readings.id, readingId));
-      if (!r || r.setId !== set.id) throw badRequest('That reading is not one of this set\u2019s.', 'readingId', 'unknown-reading');
+      // A reading of one of the set's own surveys (a class survey's readings are the class's).
+      const [r] = await tx.select({ setId: surveys.setId, assignmentId: surveys.assignmentId }).from(readings).innerJoin(surveys, eq(surveys.id, readings.surveyId)).where(eq(readings.id, readingId));
+      if (!r || r.setId !== set.id || r.assignmentId !== null) throw badRequest('That reading is not one of this set\u2019s.', 'readingId', 'unknown-reading');
     }
     if (input.action === 'replaced' && !input.newPart) throw badRequest('A replaced part needs the new part.', 'newPart', 'new-part-required');
     if (input.action !== 'replaced' && input.newPart) throw badRequest('Only a replaced part has a new part.', 'newPart', 'new-part-not-allowed');

@@ -46,10 +46,11 @@ function summaryOf(s: SetRow, viewer: Actor, extra: Extra): SetSummary {
   };
 }
 
+/** The set's own surveys only: class surveys of a training set are the class's (never counted or listed here). */
 const EXTRA_SELECT = sql`
-  (SELECT count(*)::int FROM surveys sv WHERE sv.set_id = s.id) AS survey_count,
+  (SELECT count(*)::int FROM surveys sv WHERE sv.set_id = s.id AND sv.assignment_id IS NULL) AS survey_count,
   (SELECT json_build_object('id', sv.id, 'state', sv.state, 'purpose', sv.purpose, 'startedAt', sv.created_at)
-     FROM surveys sv WHERE sv.set_id = s.id ORDER BY sv.created_at DESC, sv.id DESC LIMIT 1) AS last_survey,
+     FROM surveys sv WHERE sv.set_id = s.id AND sv.assignment_id IS NULL ORDER BY sv.created_at DESC, sv.id DESC LIMIT 1) AS last_survey,
   (SELECT count(*)::int FROM lifted_leads ll WHERE ll.set_id = s.id AND ll.resoldered_at IS NULL) AS open_lifted_leads`;
 
 type RawExtra = { survey_count: number; last_survey: { id: number; state: string; purpose: string; startedAt: string } | null; open_lifted_leads: number };

@@ -29,6 +29,32 @@ import * as repo from './surveys.repository';
 
 export const NOT_DRAFT_MESSAGE = 'This survey is complete: add an amendment (who, when, why) to change it.';
 
+/** The 409 of a change the survey's state does not take (a class survey says where it stands). */
+export function notChangeable(survey: Pick<repo.SurveyRow, 'assignmentId' | 'state'>): AppError {
+  if (survey.assignmentId === null) return conflict(NOT_DRAFT_MESSAGE, 'survey-not-draft');
+  if (survey.state === 'submitted') return conflict('This survey is submitted: it waits for the instructor\u2019s review.', 'survey-not-draft');
+  if (survey.state === 'accepted') return conflict('This survey was accepted: it is read-only.', 'survey-not-draft');
+  if (survey.state === 'returned') return conflict('This survey was returned: only the test points to re-measure take new readings.', 'survey-not-draft');
+  return conflict(`This survey is ${survey.state}.`, 'survey-not-draft');
+}
+
+/** A returned class survey: new readings only for the test points the review asked to re-measure. */
+export function notRemeasured(testPointKey: string): AppError {
+  return conflict(`Only the test points the instructor asked to re-measure take new readings: ${testPointKey} is not one of them.`, 'not-remeasured');
+}
+
+/** Whether a survey takes a new reading of this test point: a draft any; a returned class survey its re-measure points. */
+export function takesReading(survey: Pick<repo.SurveyRow, 'state' | 'remeasureKeys'>, testPointKey: string): boolean {
+  return survey.state === 'draft' || (survey.state === 'returned' && (survey.remeasureKeys ?? []).includes(testPointKey));
+}
+
+/** Refuses a new reading of this test point unless the survey takes it (409). */
+export function checkTakesReading(survey: Pick<repo.SurveyRow, 'assignmentId' | 'state' | 'remeasureKeys'>, testPointKey: string): void {
+  if (takesReading(survey, testPointKey)) return;
+  if (survey.state === 'returned') throw notRemeasured(testPointKey);
+  throw notChangeable(survey);
+}
+
 /** The message of a refused reading text: the measurement core's own words. */
 function parseOrRefuse(text: string, meter: MeterProfile | null, rangeIndex: number | null | undefined): { state: ReadingState; ohms: number | null } {
   try {
@@ -135,9 +161,11 @@ function evaluationOf(grid: SurveyGrid, r: ReadingRecord, jointChecked: boolean)
 }
 
 /**
- * The save, one statement: the account (active, at the token's version: $1, $2), the survey's set
- * visible to it ($5), the survey a draft and a followed reading ($4) of the same test point ($3);
- * the insert, idempotent by client key ($6); the stored row of a replay. A named prepared
+ * The save, one statement: the account (active, at the token's version: $1, $2), the survey ($5)
+ * writable by it — an ordinary survey through its set (owner, shared-with, admin), a class survey
+ * (`assignment_id` set) by its student only — the survey a draft (or a returned class survey and
+ * the test point one of its re-measure keys) and a followed reading ($4) of the same test point
+ * ($3); the insert, idempotent by client key ($6); the stored row of a replay. A named prepared
  * statement: PostgreSQL plans it once per connection.
  */
 const SAVE_SQL = `
@@ -147,19 +175,22 @@ const SAVE_SQL = `
     ), acc AS (
       SELECT sv.id, sv.state::text AS state, sv.version AS survey_version, s.version AS set_version,
              (sv.joint_checks ? $3::text) AS joint_checked,
+             sv.assignment_id, coalesce($3::text = ANY(sv.remeasure_keys), false) AS remeasure_ok,
              ($4::bigint IS NULL OR EXISTS (
                SELECT 1 FROM readings f WHERE f.id = $4::bigint AND f.survey_id = sv.id AND f.test_point_key = $3::text)) AS follows_ok
       FROM surveys sv JOIN sets s ON s.id = sv.set_id CROSS JOIN u
-      WHERE sv.id = $5::int AND (u.admin OR s.owner_id = u.id OR EXISTS (SELECT 1 FROM set_shares sh WHERE sh.set_id = s.id AND sh.user_id = u.id))
+      WHERE sv.id = $5::int AND CASE WHEN sv.assignment_id IS NULL
+        THEN (u.admin OR s.owner_id = u.id OR EXISTS (SELECT 1 FROM set_shares sh WHERE sh.set_id = s.id AND sh.user_id = u.id))
+        ELSE sv.started_by = u.id END
     ), ins AS (
       INSERT INTO readings (survey_id, test_point_key, client_key, follows_reading_id, text, state, ohms, method, lifted_end, range_index, note, prediction, entered_by, taken_at)
       SELECT acc.id, $3::text, $6::text, $4::bigint, $7::text, $8::reading_state, $9::float8,
              $10::reading_method, $11::smallint, $12::smallint, $13::text, $14::text, $1::int, coalesce($15::timestamptz, now())
-      FROM acc WHERE acc.state = 'draft' AND acc.follows_ok
+      FROM acc WHERE (acc.state = 'draft' OR (acc.state = 'returned' AND acc.remeasure_ok)) AND acc.follows_ok
       ON CONFLICT (survey_id, client_key) DO NOTHING
       RETURNING *
     )
-    SELECT EXISTS (SELECT 1 FROM u) AS account_ok, acc.id AS survey_id, acc.state, acc.survey_version, acc.set_version, acc.joint_checked, acc.follows_ok,
+    SELECT EXISTS (SELECT 1 FROM u) AS account_ok, acc.id AS survey_id, acc.state, acc.survey_version, acc.set_version, acc.joint_checked, acc.follows_ok, acc.remeasure_ok, acc.assignment_id,
       (SELECT row_to_json(x) FROM (SELECT i.*, (SELECT u.name FROM u) AS entered_by_name FROM ins i) x) AS inserted,
       (SELECT row_to_json(x) FROM (SELECT r.*, eu.name AS entered_by_name FROM readings r LEFT JOIN users eu ON eu.id = r.entered_by
                                    WHERE r.survey_id = acc.id AND r.client_key = $6::text) x) AS existing
@@ -211,6 +242,8 @@ export async function saveReading(ctx: Ctx, caller: VerifiedClaims, surveyId: nu
     set_version: number;
     joint_checked: boolean;
     follows_ok: boolean;
+    remeasure_ok: boolean;
+    assignment_id: number | null;
     inserted: RawReading | null;
     existing: RawReading | null;
   };
@@ -241,13 +274,18 @@ export async function saveReading(ctx: Ctx, caller: VerifiedClaims, surveyId: nu
     await actorOf(ctx.db, caller); // says why: deactivated, or a stale token
     throw unauthorized(TOKEN_STALE);
   }
-  if (out.survey_id === null) throw notFound('No such survey.');
+  if (out.survey_id === null) {
+    // Not writable by the caller: those who may read it (a class survey's instructor) are told so (403), anyone else 404.
+    await repo.writableSurvey(ctx.db, await actorOf(ctx.db, caller), surveyId);
+    throw notFound('No such survey.');
+  }
   let reading: ReadingRecord;
   let status: 200 | 201;
   if (out.existing) {
     reading = recordOfRaw(out.existing);
     status = 200;
-  } else if (out.state !== 'draft') throw conflict(NOT_DRAFT_MESSAGE, 'survey-not-draft');
+  } else if (out.state === 'returned' && !out.remeasure_ok) throw notRemeasured(input.testPointKey);
+  else if (out.state !== 'draft' && out.state !== 'returned') throw notChangeable({ assignmentId: out.assignment_id, state: out.state as repo.SurveyRow['state'] });
   else if (!out.follows_ok) throw badRequest(`"followsReadingId": reading ${follows} is not a reading of ${input.testPointKey} in this survey.`, 'followsReadingId', 'validation');
   else if (out.inserted) {
     reading = recordOfRaw(out.inserted);
@@ -266,7 +304,7 @@ export async function saveReading(ctx: Ctx, caller: VerifiedClaims, surveyId: nu
 /** PATCH /api/surveys/:id/readings/:readingId — a draft's reading; a stale version is a 409 with both values. */
 export async function editReading(ctx: Ctx, user: Actor, surveyId: number, readingId: number, edit: ReadingEdit): Promise<ReadingSaved> {
   return ctx.db.transaction(async (tx) => {
-    const { survey, access } = await repo.visibleSurvey(tx, user, surveyId, true);
+    const { survey, access } = await repo.writableSurvey(tx, user, surveyId, true);
     const current = await repo.findReading(tx, surveyId, readingId, true);
     if (!current) throw notFound('No such reading in this survey.');
     const grid = await gridOf(tx, survey, access.set);
@@ -280,7 +318,10 @@ export async function editReading(ctx: Ctx, user: Actor, surveyId: number, readi
     if (edit.text !== undefined || edit.state !== undefined) value = textOrState(edit, meter, rangeIndex);
     const liftedEnd = edit.liftedEnd !== undefined ? edit.liftedEnd : method === 'lead-lifted' ? current.liftedEnd : null;
     checkLiftedEnd(row.kind, method, liftedEnd);
-    if (survey.state !== 'draft') throw conflict(NOT_DRAFT_MESSAGE, 'survey-not-draft');
+    checkTakesReading(survey, current.testPointKey);
+    // A returned class survey: the readings its attempts froze stay as submitted (re-measure with a new reading).
+    if (survey.state === 'returned' && (await repo.frozenInAttempt(tx, surveyId, readingId)))
+      throw conflict('This reading was submitted: re-measure with a new reading (it supersedes this one).', 'reading-submitted');
     if (current.version !== edit.version) {
       const details: ReadingConflict = { current, yours: edit };
       throw conflict(`This reading was changed since you keyed it (version ${current.version}, yours ${edit.version}): both values are shown.`, 'stale-version', details as unknown as Record<string, unknown>);
@@ -330,7 +371,8 @@ const snapshot = (r: ReadingRecord) => ({ testPointKey: r.testPointKey, text: r.
  */
 export async function amend(ctx: Ctx, user: Actor, surveyId: number, body: { readingId?: number; reason: string; change: AmendmentChange }) {
   return ctx.db.transaction(async (tx) => {
-    const { survey, access } = await repo.visibleSurvey(tx, user, surveyId, true);
+    const { survey, access } = await repo.writableSurvey(tx, user, surveyId, true);
+    if (survey.assignmentId !== null) throw conflict('A class survey is not amended: the instructor returns it for re-measuring.', 'class-survey');
     const grid = await gridOf(tx, survey, access.set);
     const meter = meterOf(survey);
     const c = body.change;

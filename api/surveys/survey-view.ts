@@ -10,8 +10,9 @@
  * version of a survey never changes. (A tube-type library edit is not seen by a cached grid until
  * the process restarts.)
  */
-import { and, eq, inArray } from 'drizzle-orm';
+import { and, eq, inArray, sql } from 'drizzle-orm';
 import { templateVersions } from '../../schema/index';
+import type { Classwork } from '../domain/class-format';
 import type { MeterProfile } from '../domain/meter';
 import type { ReadingEvaluation, ReadingRecord, SurveyConditions, SurveySummary, SurveyView, VerdictCounts } from '../domain/set-format';
 import { SurveyGrid, type GridReading } from '../domain/survey-grid';
@@ -233,8 +234,41 @@ export async function surveySummaries(tx: Tx, set: Pick<SetRow, 'id' | 'version'
   return out;
 }
 
-/** The view of a survey whose access is already decided. */
-export async function surveyViewOf(tx: Tx, survey: repo.SurveyRow, access: SetAccess, parallel = false, prefetched?: Prefetched): Promise<SurveyView> {
+/** What a class survey's view adds (SurveyView.classwork), as the caller sees it. */
+export async function classworkOf(tx: Tx, survey: repo.SurveyRow, link: repo.ClassLink, viewer: repo.SurveyViewer): Promise<Classwork> {
+  const r = await tx.execute<{ n: number; last: string | Date | null }>(sql`SELECT count(*)::int AS n, max(submitted_at) AS last FROM attempts WHERE survey_id = ${survey.id}`);
+  const { n, last } = r.rows[0];
+  const due = link.dueAt.getTime();
+  // Late (derived, never a state): the newest submission after the due date, or not submitted and the due date past.
+  const late = last !== null ? new Date(last).getTime() > due : survey.state === 'draft' && Date.now() > due;
+  return {
+    assignmentId: link.assignmentId,
+    classId: link.classId,
+    title: link.title,
+    dueAt: link.dueAt.toISOString(),
+    late,
+    predictFirst: link.predictFirst,
+    showVerdicts: link.showVerdicts,
+    remeasureKeys: survey.state === 'returned' ? (survey.remeasureKeys ?? []) : null,
+    attemptCount: n,
+    viewer: viewer === 'student' ? 'student' : viewer === 'instructor' ? 'instructor' : 'admin',
+  };
+}
+
+/**
+ * The view of a survey whose access is already decided. `who` (from visibleSurvey) says how the
+ * caller sees it: a class survey has its classwork and no previous values (the set's surveys are
+ * not the student's), and only its student may add readings; a reference survey read by a
+ * student is read-only.
+ */
+export async function surveyViewOf(
+  tx: Tx,
+  survey: repo.SurveyRow,
+  access: SetAccess,
+  parallel = false,
+  prefetched?: Prefetched,
+  who: Pick<repo.SurveyAccess, 'viewer' | 'classLink'> = { viewer: 'set', classLink: null },
+): Promise<SurveyView> {
   const set = access.set;
   // Outside a transaction the queries go out at once (pool connections); inside one, in turn.
   const steps = [
@@ -270,7 +304,7 @@ export async function surveyViewOf(tx: Tx, survey: repo.SurveyRow, access: SetAc
   // The newest earlier survey of the set: its current values, for the grid to show once a new value is keyed.
   const earlier = siblings.filter((s) => s.createdAt < survey.createdAt || (s.createdAt.getTime() === survey.createdAt.getTime() && s.id < survey.id));
   let previous: SurveyView['previous'] = null;
-  if (earlier.length) {
+  if (earlier.length && who.classLink === null) {
     const prev = earlier[earlier.length - 1];
     const fetched = prefetched ? await prefetched.previous : null;
     const readings = fetched !== null && fetched.surveyId === prev.id ? fetched.list : await repo.currentValuesOf(tx, prev.id);
@@ -288,7 +322,7 @@ export async function surveyViewOf(tx: Tx, survey: repo.SurveyRow, access: SetAc
       carriedFromSurveyId: survey.carriedFromSurveyId,
       jointChecks,
       version: survey.version,
-      editable: survey.state === 'draft',
+      editable: who.classLink !== null ? who.viewer === 'student' && (survey.state === 'draft' || survey.state === 'returned') : who.viewer !== 'reference' && survey.state === 'draft',
     },
     set: { id: set.id, label: set.label, serial: set.serial, deviations: set.deviations, hotChassis: set.template.hotChassis, power: set.template.power },
     template: { id: set.templateId, versionNumber: survey.versionNumber, document: v.document },
@@ -297,6 +331,7 @@ export async function surveyViewOf(tx: Tx, survey: repo.SurveyRow, access: SetAc
     evaluations,
     amendments,
     order,
+    classwork: who.classLink !== null ? await classworkOf(tx, survey, who.classLink, who.viewer) : null,
     previous,
   };
 }
@@ -349,6 +384,6 @@ export async function loadSurveyView(ctx: Deps, user: Actor, surveyId: number): 
   };
   // A refused caller must not leave rejections unhandled.
   for (const p of Object.values(prefetched)) (p as Promise<unknown>).catch(() => undefined);
-  const { survey, access } = await repo.visibleSurvey(ctx.db, user, surveyId);
-  return surveyViewOf(ctx.db, survey, access, true, prefetched);
+  const found = await repo.visibleSurvey(ctx.db, user, surveyId);
+  return surveyViewOf(ctx.db, found.survey, found.access, true, prefetched, found);
 }

@@ -1,5 +1,5 @@
 /** Queries of surveys, readings, amendments and lifted leads: each takes `db` or a transaction `tx`. */
-import { and, asc, desc, eq, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, isNull, sql } from 'drizzle-orm';
 import { liftedLeads, readings, surveyAmendments, surveys, users } from '../../schema/index';
 import { alias } from 'drizzle-orm/pg-core';
 import type { MeterProfile } from '../domain/meter';
@@ -7,8 +7,8 @@ import type { AmendmentRecord, LiftedLeadRecord, MeterCheck, ReadingRecord, Surv
 import type { AcceptanceRule } from '../domain/verdict';
 import type { Method, ReadingState } from '../domain/words';
 import type { Tx } from '../db';
-import { notFound } from '../http/errors';
-import { visibleSet, type Actor, type SetAccess } from '../sets/sets.repository';
+import { forbidden, notFound } from '../http/errors';
+import { findSet, visibleSet, type Actor, type SetAccess } from '../sets/sets.repository';
 
 /** The meter as a survey keeps it (a snapshot taken at the start or at a change of meter). */
 export interface MeterSnapshot {
@@ -31,34 +31,134 @@ export async function findSurvey(tx: Tx, surveyId: number, lock = false): Promis
   return row ? { ...row.s, startedByName: row.startedByName } : undefined;
 }
 
-/** The survey and its set if `user` may see the set; a 404 otherwise (same answer as no survey). */
-export async function visibleSurvey(tx: Tx, user: Actor, surveyId: number, lock = false): Promise<{ survey: SurveyRow; access: SetAccess }> {
+/**
+ * A class survey's assignment and class (schema/classes.ts): who teaches it and the options the
+ * survey follows. Null outside a class.
+ */
+export interface ClassLink {
+  assignmentId: number;
+  classId: number;
+  className: string;
+  instructorId: number;
+  title: string;
+  dueAt: Date;
+  predictFirst: boolean;
+  showVerdicts: boolean;
+  referenceSurveyId: number | null;
+}
+
+/**
+ * How the caller sees a survey: through the set (owner, shared-with, admin: an ordinary survey),
+ * as the student whose class survey it is, as its class's instructor, as an admin (class survey),
+ * or as a student reading the reference survey of an assignment their own survey of which was
+ * accepted (read-only).
+ */
+export type SurveyViewer = 'set' | 'student' | 'instructor' | 'admin' | 'reference';
+
+export interface SurveyAccess {
+  survey: SurveyRow;
+  access: SetAccess;
+  viewer: SurveyViewer;
+  classLink: ClassLink | null;
+}
+
+export async function classLinkOf(tx: Tx, assignmentId: number): Promise<ClassLink | null> {
+  const r = await tx.execute<{
+    id: number;
+    class_id: number;
+    class_name: string;
+    instructor_id: number;
+    title: string;
+    due_at: string | Date;
+    predict_first: boolean;
+    show_verdicts: boolean;
+    reference_survey_id: number | null;
+  }>(sql`
+    SELECT a.id, a.class_id, c.name AS class_name, c.instructor_id, a.title, a.due_at, a.predict_first, a.show_verdicts, a.reference_survey_id
+    FROM assignments a JOIN classes c ON c.id = a.class_id WHERE a.id = ${assignmentId}`);
+  const a = r.rows[0];
+  if (!a) return null;
+  return {
+    assignmentId: a.id,
+    classId: a.class_id,
+    className: a.class_name,
+    instructorId: a.instructor_id,
+    title: a.title,
+    dueAt: a.due_at instanceof Date ? a.due_at : new Date(a.due_at),
+    predictFirst: a.predict_first,
+    showVerdicts: a.show_verdicts,
+    referenceSurveyId: a.reference_survey_id,
+  };
+}
+
+/** A student whose own survey of an assignment with this reference survey was accepted may read it. */
+async function readsAsReference(tx: Tx, userId: number, surveyId: number): Promise<boolean> {
+  const r = await tx.execute(sql`
+    SELECT 1 FROM assignments a JOIN surveys sv ON sv.assignment_id = a.id
+    WHERE a.reference_survey_id = ${surveyId} AND sv.started_by = ${userId} AND sv.state = 'accepted' LIMIT 1`);
+  return r.rows.length > 0;
+}
+
+/**
+ * The survey and its set if `user` may see it; a 404 otherwise (same answer as no survey).
+ * An ordinary survey: whoever sees its set (owner, shared-with, admin). A class survey
+ * (`assignment_id` set): only its student, its class's instructor and admins — never through the
+ * training set's owner or sharing. The reference survey of an assignment also opens, read-only,
+ * to a student whose own survey of that assignment was accepted.
+ */
+export async function visibleSurvey(tx: Tx, user: Actor, surveyId: number, lock = false): Promise<SurveyAccess> {
   const survey = await findSurvey(tx, surveyId, lock);
   if (!survey) throw notFound('No such survey.');
+  const admin = user.roles.includes('admin');
+  if (survey.assignmentId !== null) {
+    const link = await classLinkOf(tx, survey.assignmentId);
+    const viewer: SurveyViewer | null = !link ? null : survey.startedBy === user.id ? 'student' : link.instructorId === user.id ? 'instructor' : admin ? 'admin' : null;
+    if (!link || viewer === null) throw notFound('No such survey.');
+    const found = await findSet(tx, survey.setId, user.id);
+    if (!found) throw notFound('No such survey.');
+    return { survey, access: { set: found.set, owner: false, admin, shared: false }, viewer, classLink: link };
+  }
   try {
-    return { survey, access: await visibleSet(tx, user, survey.setId) };
+    return { survey, access: await visibleSet(tx, user, survey.setId), viewer: 'set', classLink: null };
   } catch {
+    if (await readsAsReference(tx, user.id, surveyId)) {
+      const found = await findSet(tx, survey.setId, user.id);
+      if (found) return { survey, access: { set: found.set, owner: false, admin, shared: false }, viewer: 'reference', classLink: null };
+    }
     throw notFound('No such survey.');
   }
 }
 
+/**
+ * The survey if `user` may change it: an ordinary survey's set people; a class survey's student
+ * only. Those who may only read it (its instructor, an admin, a student reading a reference) are
+ * told so (403); anyone else gets the 404 of visibleSurvey. The survey's state is the caller's.
+ */
+export async function writableSurvey(tx: Tx, user: Actor, surveyId: number, lock = false): Promise<SurveyAccess> {
+  const a = await visibleSurvey(tx, user, surveyId, lock);
+  if (a.viewer === 'reference') throw forbidden('The reference survey is yours to read, not to change.', 'read-only');
+  if (a.classLink !== null && a.viewer !== 'student') throw forbidden('Only the student whose class survey this is may change it.', 'read-only');
+  return a;
+}
+
+/** The set's ordinary surveys, oldest first (class surveys are the class's: never in a set's lists). */
 export async function surveysOfSet(tx: Tx, setId: number): Promise<SurveyRow[]> {
   const rows = await tx
     .select({ s: surveys, startedByName: users.name })
     .from(surveys)
     .leftJoin(users, eq(users.id, surveys.startedBy))
-    .where(eq(surveys.setId, setId))
+    .where(and(eq(surveys.setId, setId), isNull(surveys.assignmentId)))
     .orderBy(asc(surveys.createdAt), asc(surveys.id));
   return rows.map((r) => ({ ...r.s, startedByName: r.startedByName }));
 }
 
-/** The surveys of the set a survey belongs to (as surveysOfSet, found from the survey's id: no access check). */
+/** The ordinary surveys of the set a survey belongs to (as surveysOfSet, found from the survey's id: no access check). */
 export async function surveysBesides(tx: Tx, surveyId: number): Promise<SurveyRow[]> {
   const rows = await tx
     .select({ s: surveys, startedByName: users.name })
     .from(surveys)
     .leftJoin(users, eq(users.id, surveys.startedBy))
-    .where(sql`${surveys.setId} = (SELECT set_id FROM surveys WHERE id = ${surveyId})`)
+    .where(and(sql`${surveys.setId} = (SELECT set_id FROM surveys WHERE id = ${surveyId})`, isNull(surveys.assignmentId)))
     .orderBy(asc(surveys.createdAt), asc(surveys.id));
   return rows.map((r) => ({ ...r.s, startedByName: r.startedByName }));
 }
@@ -150,13 +250,13 @@ export async function readingsOf(tx: Tx, surveyId: number): Promise<ReadingRecor
   return r.rows[0]?.list ?? [];
 }
 
-/** The current values of the newest earlier survey of the same set (as currentValuesOf), found from this survey's id. */
+/** The current values of the newest earlier ordinary survey of the same set (as currentValuesOf), found from this survey's id. */
 export async function previousValuesOf(tx: Tx, surveyId: number): Promise<{ surveyId: number; list: { testPointKey: string; text: string; state: ReadingState; ohms: number | null }[] } | null> {
   const r = await tx.execute<{ id: number | null; list: { testPointKey: string; text: string; state: ReadingState; ohms: number | null }[] | null }>(sql`
     WITH me AS (SELECT id, set_id, created_at FROM surveys WHERE id = ${surveyId}),
     prev AS (
       SELECT s.id FROM surveys s, me
-      WHERE s.set_id = me.set_id AND (s.created_at < me.created_at OR (s.created_at = me.created_at AND s.id < me.id))
+      WHERE s.set_id = me.set_id AND s.assignment_id IS NULL AND (s.created_at < me.created_at OR (s.created_at = me.created_at AND s.id < me.id))
       ORDER BY s.created_at DESC, s.id DESC LIMIT 1
     )
     SELECT (SELECT id FROM prev) AS id,
@@ -211,6 +311,13 @@ export async function readingsOfSurveys(tx: Tx, surveyIds: number[]): Promise<Ma
     out.get(surveyId)?.push(reading);
   }
   return out;
+}
+
+/** Whether a reading was frozen in one of the survey's attempts (a submitted class survey). */
+export async function frozenInAttempt(tx: Tx, surveyId: number, readingId: number): Promise<boolean> {
+  const r = await tx.execute(sql`
+    SELECT 1 FROM attempts a WHERE a.survey_id = ${surveyId} AND a.readings @> ${JSON.stringify([{ id: readingId }])}::jsonb LIMIT 1`);
+  return r.rows.length > 0;
 }
 
 export async function findReading(tx: Tx, surveyId: number, readingId: number, lock = false): Promise<ReadingRecord | undefined> {

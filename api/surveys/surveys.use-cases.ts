@@ -17,12 +17,12 @@ import { AppError, badRequest, conflict, notFound } from '../http/errors';
 import { ownProfile } from '../meter-profiles/meter-profiles.use-cases';
 import { editableSet, visibleSet, type Actor } from '../sets/sets.repository';
 import { countSurveyOnTemplate } from '../sets/sets.use-cases';
-import { NOT_DRAFT_MESSAGE } from './readings.use-cases';
+import { checkTakesReading, notChangeable } from './readings.use-cases';
 import { currentReadings, gridOf, gridReadingOf, publishedVersion, surveySummaries, surveyViewOf, versionDoc } from './survey-view';
 import * as repo from './surveys.repository';
 
 /** The meter snapshot a survey keeps, from one of the caller's profiles (archived ones refused). */
-async function meterSnapshot(tx: Tx, actor: Actor, meterProfileId: number, field = 'meterProfileId'): Promise<repo.MeterSnapshot> {
+export async function meterSnapshot(tx: Tx, actor: Actor, meterProfileId: number, field = 'meterProfileId'): Promise<repo.MeterSnapshot> {
   let p;
   try {
     p = await ownProfile(tx, actor, meterProfileId);
@@ -105,11 +105,14 @@ export interface SurveyPatch {
 /** PATCH /api/surveys/:id — conditions, rule, meter or purpose while draft (with the version). */
 export async function patchSurvey(ctx: Ctx, actor: Actor, surveyId: number, patch: SurveyPatch): Promise<SurveyView> {
   return ctx.db.transaction(async (tx) => {
-    const { survey, access } = await repo.visibleSurvey(tx, actor, surveyId, true);
+    const found = await repo.writableSurvey(tx, actor, surveyId, true);
+    const { survey } = found;
     let meter: repo.MeterSnapshot | null | undefined;
     if (patch.meterProfileId === null) meter = null;
     else if (patch.meterProfileId !== undefined) meter = await meterSnapshot(tx, actor, patch.meterProfileId);
-    if (survey.state !== 'draft') throw conflict(NOT_DRAFT_MESSAGE, 'survey-not-draft');
+    if (survey.assignmentId !== null && (patch.rule !== undefined || patch.purpose !== undefined))
+      throw conflict('A class survey follows its assignment: its rule and purpose are the assignment\u2019s.', 'set-by-assignment');
+    if (survey.state !== 'draft') throw notChangeable(survey);
     if (survey.version !== patch.version) throw conflict(`This survey was changed since you opened it (version ${survey.version}, yours ${patch.version}).`, 'stale-version', { currentVersion: survey.version });
     await tx
       .update(surveys)
@@ -122,7 +125,7 @@ export async function patchSurvey(ctx: Ctx, actor: Actor, surveyId: number, patc
         updatedAt: sql`now()`,
       })
       .where(eq(surveys.id, surveyId));
-    return surveyViewOf(tx, (await repo.findSurvey(tx, surveyId))!, access);
+    return surveyViewOf(tx, (await repo.findSurvey(tx, surveyId))!, found.access, false, undefined, found);
   });
 }
 
@@ -133,7 +136,7 @@ export async function patchSurvey(ctx: Ctx, actor: Actor, surveyId: number, patc
  */
 export async function meterCheck(ctx: Ctx, actor: Actor, surveyId: number, body: { text: string; rangeIndex?: number | null }): Promise<MeterCheck> {
   return ctx.db.transaction(async (tx) => {
-    const { survey } = await repo.visibleSurvey(tx, actor, surveyId, true);
+    const { survey } = await repo.writableSurvey(tx, actor, surveyId, true);
     const snap = survey.meter as repo.MeterSnapshot | null;
     let parsed;
     try {
@@ -143,7 +146,7 @@ export async function meterCheck(ctx: Ctx, actor: Actor, surveyId: number, body:
       throw e;
     }
     if (snap && body.rangeIndex != null && body.rangeIndex >= snap.profile.ranges.length) throw badRequest(`"rangeIndex": the survey's meter has ${snap.profile.ranges.length} range(s), numbered from 0.`, 'rangeIndex', 'validation');
-    if (survey.state !== 'draft') throw conflict(NOT_DRAFT_MESSAGE, 'survey-not-draft');
+    if (survey.state !== 'draft') throw notChangeable(survey);
     if (!snap) throw conflict('This survey has no meter profile: choose one before checking it.', 'no-meter');
     if (snap.checkResistorOhms == null) throw conflict(`The meter profile "${snap.name}" names no check resistor: add its value to the profile.`, 'no-check-resistor');
     const known = snap.checkResistorOhms;
@@ -177,7 +180,8 @@ export async function meterCheck(ctx: Ctx, actor: Actor, surveyId: number, body:
 /** POST /api/surveys/:id/complete — draft → complete; read-only afterwards (amendments only). */
 export async function completeSurvey(ctx: Ctx, actor: Actor, surveyId: number): Promise<SurveyView> {
   return ctx.db.transaction(async (tx) => {
-    const { survey, access } = await repo.visibleSurvey(tx, actor, surveyId, true);
+    const { survey, access } = await repo.writableSurvey(tx, actor, surveyId, true);
+    if (survey.assignmentId !== null) throw conflict('A class survey is not completed: submit it for review.', 'submit-instead');
     if (survey.state !== 'draft') throw conflict(`This survey is ${survey.state} already.`, 'survey-not-draft');
     await tx.update(surveys).set({ state: 'complete', completedAt: sql`now()`, completedBy: actor.id, version: survey.version + 1, updatedAt: sql`now()` }).where(eq(surveys.id, surveyId));
     return surveyViewOf(tx, (await repo.findSurvey(tx, surveyId))!, access);
@@ -187,11 +191,11 @@ export async function completeSurvey(ctx: Ctx, actor: Actor, surveyId: number): 
 /** POST /api/surveys/:id/joint-checks — mark (or unmark) the joints and contacts of a test point's path checked. */
 export async function jointCheck(ctx: Ctx, actor: Actor & { name?: string }, surveyId: number, body: { testPointKey: string; checked: boolean }): Promise<{ jointChecks: SurveyView['survey']['jointChecks']; evaluation: ReadingEvaluation | null }> {
   return ctx.db.transaction(async (tx) => {
-    const { survey, access } = await repo.visibleSurvey(tx, actor, surveyId, true);
+    const { survey, access } = await repo.writableSurvey(tx, actor, surveyId, true);
     const grid = await gridOf(tx, survey, access.set);
     const row = grid.row(body.testPointKey);
     if (!row || row.kind === 'pair-relation') throw badRequest(`"testPointKey": this survey's template version has no test point ${body.testPointKey} with a path to check.`, 'testPointKey', 'validation');
-    if (survey.state !== 'draft') throw conflict(NOT_DRAFT_MESSAGE, 'survey-not-draft');
+    checkTakesReading(survey, body.testPointKey);
     const checks = { ...(survey.jointChecks as SurveyView['survey']['jointChecks']) };
     if (body.checked) checks[body.testPointKey] = { by: { id: actor.id, name: actor.name ?? '' }, at: new Date().toISOString() };
     else delete checks[body.testPointKey];
@@ -212,14 +216,15 @@ export async function liftLead(
   body: { componentKey: string; end: 0 | 1; promptedByReadingId?: number | null; note?: string },
 ): Promise<LiftedLeadRecord> {
   return ctx.db.transaction(async (tx) => {
-    const { survey, access } = await repo.visibleSurvey(tx, actor, surveyId, true);
-    await editableSet(tx, actor, survey.setId);
+    const { survey, access } = await repo.writableSurvey(tx, actor, surveyId, true);
+    // A class survey's student lifts leads of the training set through their survey; otherwise the set's editors.
+    if (survey.assignmentId === null) await editableSet(tx, actor, survey.setId);
     const doc = (await versionDoc(tx, survey.templateVersionId)).document;
     const c = doc.components.find((x) => x.key === body.componentKey);
     if (!c) throw badRequest(`"componentKey": this survey's template version has no component ${body.componentKey}.`, 'componentKey', 'validation');
     if (body.promptedByReadingId != null && !(await repo.findReading(tx, surveyId, body.promptedByReadingId)))
       throw badRequest(`"promptedByReadingId": reading ${body.promptedByReadingId} is not a reading of this survey.`, 'promptedByReadingId', 'validation');
-    if (survey.state !== 'draft') throw conflict(NOT_DRAFT_MESSAGE, 'survey-not-draft');
+    if (survey.state !== 'draft') throw notChangeable(survey);
     const node = c.nodes[body.end];
     const [open] = await tx
       .select({ id: liftedLeads.id })
