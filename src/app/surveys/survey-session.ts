@@ -12,6 +12,7 @@ import type {
   VerdictCounts,
 } from '@domain/set-format';
 import { GridInputError, SurveyGrid, parseReadingText, worstVerdict, type GridReading, type GridRow } from '@domain/survey-grid';
+import type { AssignmentDetail, AttemptSummary, Classwork } from '@domain/class-format';
 import type { Component as Part, TubeTypeRecord } from '@domain/template-format';
 import type { Method, ReadingState, Verdict } from '@domain/words';
 import { apiErrorOf } from '../core/errors/api-error';
@@ -20,6 +21,9 @@ import { OutboxSender, conflictOf, isTransient, type SentResult } from './offlin
 import { SurveyDb, nextSeq, type OutboxItem, type OutboxOp } from './offline/survey-db';
 import { SurveysApi, type AmendmentInput } from './surveys-api';
 import type { StateKey } from './survey-words';
+
+/** A class survey's submission, as the attempt list or the submission queue names it. */
+export type AttemptRef = Pick<AttemptSummary, 'id' | 'number' | 'submittedAt' | 'late'> & { review?: AttemptSummary['review'] };
 
 /** How far the API has answered for a row's current reading. */
 export type RowStatus = 'empty' | 'waiting' | 'confirmed' | 'differs';
@@ -50,6 +54,14 @@ export interface RowState {
   /** Pair relations: the verdict on the ratio of the two positions. */
   readonly pair: { verdict: Verdict; ratio: number | null; driftPct: number | null } | null;
   readonly conflict: ReadingConflict | null;
+  /** A returned class survey: this test point was not asked to be re-measured (read-only). */
+  readonly locked: boolean;
+  /** Predict first: the row has no reading and no prediction yet — the field takes the prediction, the expectation stays hidden. */
+  readonly predicting: boolean;
+  /** The prediction of this row: typed and waiting for the measured value, or kept with the current reading. */
+  readonly prediction: string | null;
+  /** The prediction is typed and the measured value is still to come. */
+  readonly predictionWaiting: boolean;
 }
 
 /** `cached`: this browser's copy shows while the API is asked; `offline`: the API did not answer, the copy stands. */
@@ -86,6 +98,10 @@ export class SurveySession {
   readonly meterCheck = signal<MeterCheck | null>(null);
   /** Per row: the meter range and note the next reading there is taken with (range null: inferred). */
   readonly nextOptions = signal<ReadonlyMap<string, { rangeIndex: number | null; note: string }>>(new Map());
+  /** Predict first: predictions typed on rows whose measured value is not keyed yet (kept with this browser's copy). */
+  readonly predictions = signal<ReadonlyMap<string, string>>(new Map());
+  /** A class survey: the newest attempt (submission) of it, once the API has said (null: none, or not known yet). */
+  readonly latestAttempt = signal<AttemptRef | null>(null);
 
   private readonly pendingIds = new Map<string, number>();
   private pendingCounter = 0;
@@ -119,6 +135,29 @@ export class SurveySession {
       rule: v.survey.rule,
       conditions: v.survey.conditions,
     });
+  });
+
+  /** A class survey (an assignment's): its options and the caller's place; null outside a class. */
+  readonly classwork = computed<Classwork | null>(() => this.view()?.classwork ?? null);
+
+  /** The student's own class survey while it is worked on (draft, or returned for re-measuring). */
+  private readonly studentWorking = computed(() => {
+    const v = this.view();
+    const cw = v?.classwork;
+    return !!cw && cw.viewer === 'student' && (v!.survey.state === 'draft' || v!.survey.state === 'returned');
+  });
+
+  /** The assignment hides verdicts until the survey is submitted: glyphs, words, drift, summaries and advice stay hidden. */
+  readonly verdictsHidden = computed(() => this.studentWorking() && this.classwork()?.showVerdicts === false);
+
+  /** The assignment asks for a prediction before each first measurement. */
+  readonly predictFirst = computed(() => this.studentWorking() && this.classwork()?.predictFirst === true && this.editable());
+
+  /** A returned class survey: the only test points that take a reading (null: no such limit). */
+  readonly remeasureKeys = computed<ReadonlySet<string> | null>(() => {
+    const v = this.view();
+    if (v?.classwork == null || v.survey.state !== 'returned') return null;
+    return new Set(v.classwork.remeasureKeys ?? []);
   });
 
   readonly editable = computed(() => {
@@ -186,6 +225,10 @@ export class SurveySession {
     const lifts = this.lifts();
     const conflicts = this.conflicts();
     const previous = this.previousByKey();
+    const remeasure = this.remeasureKeys();
+    const predictFirst = this.predictFirst();
+    const typed = this.predictions();
+    const pendingPredictions = this.pendingPredictions();
     const refusals = new Map<string, { seq: number; message: string }>();
     for (const item of this.outbox()) {
       if (item.refused === null) continue;
@@ -214,12 +257,40 @@ export class SurveySession {
         lift: lifts.has(key) ? (lifts.get(key) ?? null) : (reading !== null && reading.method === 'lead-lifted' && reading.liftedEnd !== null ? { end: reading.liftedEnd, followsReadingId: null, followsClientKey: null } : null),
         pair: pair === null ? null : samePair(this.previousRows.get(key)?.pair ?? null, pair),
         conflict: conflicts.get(key) ?? null,
+        locked: remeasure !== null && !remeasure.has(key),
+        predicting: predictFirst && row.pair === null && reading === null && !typed.has(key),
+        prediction: reading === null ? (typed.get(key) ?? null) : (record !== null ? record.prediction : pendingPredictions.size > 0 ? (pendingPredictions.get(this.clientKeyOfPending(reading.id) ?? '') ?? null) : null),
+        predictionWaiting: reading === null && typed.has(key),
       };
       const before = this.previousRows.get(key);
       out.set(key, before !== undefined && sameRow(before, next) ? before : next);
     }
     this.previousRows = out;
     return out;
+  });
+
+  /** Predictions sent with readings still waiting in the outbox, by client key. */
+  private readonly pendingPredictions = computed(() => {
+    const m = new Map<string, string>();
+    for (const item of this.outbox()) if (item.op.kind === 'reading' && item.op.input.prediction) m.set(item.op.input.clientKey, item.op.input.prediction);
+    return m;
+  });
+
+  /** Test points that take a reading and have none yet (pair relations are judged, not read). */
+  readonly unreadRows = computed(() => [...this.rowStates().values()].filter((s) => s.row.pair === null && s.reading === null).map((s) => s.row));
+
+  /**
+   * A returned class survey: the requested test points not re-measured since the last submission
+   * (a reading newer than it, or one still waiting here, counts). Unknown submission time: every requested point.
+   */
+  readonly remeasureLeft = computed(() => {
+    const keys = this.remeasureKeys();
+    if (keys === null) return [];
+    const since = this.latestAttempt()?.submittedAt ?? null;
+    return [...this.rowStates().values()]
+      .filter((s) => keys.has(s.row.testPointKey))
+      .filter((s) => s.reading === null || (s.record !== null && (since === null || s.record.takenAt <= since)))
+      .map((s) => s.row);
   });
 
   /** The verdict each test point counts with (the browser's, which the API confirms). */
@@ -285,6 +356,7 @@ export class SurveySession {
       const known = new Set(items.map((i) => i.seq));
       this.outbox.set([...items, ...this.outbox().filter((i) => !known.has(i.seq))].sort((a, b) => a.seq - b.seq));
       if (cached?.lifts?.length) this.lifts.set(new Map([...cached.lifts, ...this.lifts()]));
+      if (cached?.predictions?.length) this.predictions.set(new Map([...cached.predictions, ...this.predictions()]));
       // This browser's copy shows until the API answers.
       if (cached !== undefined && this.loadState() === 'loading') this.applyView(cached.view, 'cached');
       return cached;
@@ -300,7 +372,8 @@ export class SurveySession {
       this.applyView(settled.view, 'ok');
       this.away.set(false);
       await local;
-      void this.db.putView(settled.view, [...this.lifts()]);
+      void this.db.putView(settled.view, [...this.lifts()], [...this.predictions()]);
+      void this.loadAttempt();
     } else {
       const cached = await local;
       if (this.surveyId() !== surveyId) return;
@@ -349,7 +422,10 @@ export class SurveySession {
     const row = this.grid()?.row(testPointKey);
     if (row === undefined) return 'Unknown test point.';
     if (row.pair !== null) return 'A pair relation is judged from its two positions; it takes no reading of its own.';
-    const lift = this.rowStates().get(testPointKey)?.lift ?? null;
+    const rowState = this.rowStates().get(testPointKey);
+    if (rowState?.locked) return 'Only the test points the instructor asked to re-measure take a reading now.';
+    if (rowState?.predicting) return 'Predict first: type the reading you expect in circuit, Enter; then the measured value.';
+    const lift = rowState?.lift ?? null;
     const options = this.nextOptions().get(testPointKey);
     const rangeIndex = options?.rangeIndex ?? null;
     let input: ReadingInput;
@@ -366,6 +442,14 @@ export class SurveySession {
     input.method = lift !== null ? 'lead-lifted' : 'in-circuit';
     input.liftedEnd = lift?.end ?? null;
     input.followsReadingId = lift?.followsReadingId ?? null;
+    let followsClientKey = lift?.followsClientKey ?? null;
+    if (this.remeasureKeys() !== null && input.followsReadingId === null && followsClientKey === null && rowState?.reading) {
+      // A returned survey: the re-measurement follows (supersedes) the current reading of its test point.
+      if (rowState.record !== null) input.followsReadingId = rowState.record.id;
+      else followsClientKey = this.clientKeyOfPending(rowState.reading.id);
+    }
+    const prediction = rowState?.predictionWaiting ? this.predictions().get(testPointKey) : undefined;
+    if (prediction !== undefined) input.prediction = prediction;
     input.takenAt = new Date().toISOString();
     if (rangeIndex !== null) input.rangeIndex = rangeIndex;
     if (options?.note) {
@@ -373,13 +457,43 @@ export class SurveySession {
       // The note belongs to this reading; the range stays for the row.
       this.setNextOptions(testPointKey, { rangeIndex, note: '' });
     }
-    const followsClientKey = lift?.followsClientKey ?? null;
     if (lift !== null && (lift.followsReadingId !== null || lift.followsClientKey !== null)) {
       // Only the first reading after the lift follows the prompting one; later ones stay on the lifted lead.
       this.setLift(testPointKey, { end: lift.end, followsReadingId: null, followsClientKey: null });
     }
     this.enqueue({ kind: 'reading', input, followsClientKey });
+    if (prediction !== undefined) this.setPrediction(testPointKey, null);
     return null;
+  }
+
+  /**
+   * Predict first: the reading the student expects in circuit, typed before the measured value
+   * (checked like a reading; kept in this browser until the measured value goes with it).
+   */
+  predict(testPointKey: string, text: string): string | null {
+    const s = this.rowStates().get(testPointKey);
+    if (!this.predictFirst() || s === undefined || !s.predicting) return 'This row takes no prediction now.';
+    const t = text.trim();
+    if (t.length > 40) return 'A prediction is at most 40 characters.';
+    try {
+      parseReadingText(t, null);
+    } catch (e) {
+      return e instanceof GridInputError ? e.message : String(e);
+    }
+    this.setPrediction(testPointKey, t);
+    return null;
+  }
+
+  /** Takes a typed prediction back (the row asks for one again), or sets it. */
+  setPrediction(testPointKey: string, text: string | null): void {
+    const m = new Map(this.predictions());
+    if (text === null) {
+      if (!m.has(testPointKey)) return;
+      m.delete(testPointKey);
+    } else m.set(testPointKey, text);
+    this.predictions.set(m);
+    // At once, not debounced: a prediction must survive a reload right after it is typed.
+    void this.persist();
   }
 
   /** Lifts a lead of the row's component at one end: recorded on the set's lifted-lead list. */
@@ -552,6 +666,50 @@ export class SurveySession {
     return null;
   }
 
+  /**
+   * A class survey handed in (POST /api/surveys/:id/submit): the attempt is frozen on the server.
+   * Never queued: it needs the server, and the readings waiting here go first.
+   */
+  async submit(): Promise<string | null> {
+    const id = this.surveyId();
+    if (id === null) return null;
+    if (typeof navigator !== 'undefined' && navigator.onLine === false) return 'Submitting needs the server, and this device is offline. Your readings are kept in this browser; submit when it is back online.';
+    if (this.waitingCount() > 0) return 'Some readings still wait to be sent: they go first, then submit.';
+    let attempt: AttemptSummary;
+    try {
+      attempt = await firstValueFrom(this.api.submit(id));
+    } catch (err: unknown) {
+      if (isTransient(err)) {
+        this.away.set(true);
+        return 'Not submitted: the server cannot be reached. Submitting needs it; your readings are kept in this browser.';
+      }
+      return apiErrorOf(err).message;
+    }
+    this.away.set(false);
+    this.latestAttempt.set(attempt);
+    await this.reload();
+    return null;
+  }
+
+  /** A class survey with submissions: its newest attempt (for the link to its review). */
+  private async loadAttempt(): Promise<void> {
+    const v = this.view();
+    const cw = v?.classwork;
+    if (!v || !cw || cw.attemptCount === 0) return;
+    try {
+      const detail: AssignmentDetail = await firstValueFrom(this.api.assignment(cw.assignmentId));
+      if (this.view()?.survey.id !== v.survey.id) return;
+      const mine = detail.myAttempts.find((a) => a.surveyId === v.survey.id) ?? null;
+      const queued = detail.queue.find((q) => q.surveyId === v.survey.id)?.latestAttempt ?? null;
+      const latest = mine ?? queued;
+      const known = this.latestAttempt();
+      // A submission answered meanwhile may be newer than what this answer says.
+      if (latest !== null && (known === null || latest.number >= known.number)) this.latestAttempt.set(latest);
+    } catch {
+      // The link to the review waits for the next load; the grid works without it.
+    }
+  }
+
   async amend(body: AmendmentInput): Promise<string | null> {
     const id = this.surveyId();
     if (id === null) return null;
@@ -571,7 +729,8 @@ export class SurveySession {
     try {
       const view = await firstValueFrom(this.api.survey(id));
       this.applyView(view, 'ok');
-      void this.db.putView(view, [...this.lifts()]);
+      void this.db.putView(view, [...this.lifts()], [...this.predictions()]);
+      if (this.latestAttempt() === null) void this.loadAttempt();
     } catch (err: unknown) {
       if (err instanceof HttpErrorResponse && isTransient(err)) this.away.set(true);
     }
@@ -669,7 +828,7 @@ export class SurveySession {
     for (const [id, e] of this.serverEvals()) evaluations[id] = e;
     const jointChecks: SurveyView['survey']['jointChecks'] = {};
     for (const k of this.jointChecks()) jointChecks[k] = v.survey.jointChecks[k] ?? { by: null, at: new Date().toISOString() };
-    await this.db.putView({ ...v, readings: [...this.stored()], evaluations, survey: { ...v.survey, jointChecks, meterCheck: this.meterCheck() } }, [...this.lifts()]);
+    await this.db.putView({ ...v, readings: [...this.stored()], evaluations, survey: { ...v.survey, jointChecks, meterCheck: this.meterCheck() } }, [...this.lifts()], [...this.predictions()]);
   }
 }
 
@@ -686,7 +845,11 @@ function sameRow(a: RowState, b: RowState): boolean {
     a.previous === b.previous &&
     sameLift(a.lift, b.lift) &&
     a.pair === b.pair &&
-    a.conflict === b.conflict
+    a.conflict === b.conflict &&
+    a.locked === b.locked &&
+    a.predicting === b.predicting &&
+    a.prediction === b.prediction &&
+    a.predictionWaiting === b.predictionWaiting
   );
 }
 

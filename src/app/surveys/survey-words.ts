@@ -1,5 +1,6 @@
 import type { GridAdvice, VerdictCounts } from '@domain/set-format';
 import { formatOhms } from '@domain/notation';
+import type { GridRow } from '@domain/survey-grid';
 import type { Method, ReadingState, SurveyPurpose, SurveyState } from '@domain/words';
 
 /** The single keys of the grid (typed into an empty reading field), always shown in the legend. */
@@ -100,4 +101,10 @@ export function countsText(c: VerdictCounts): string {
     c.unread ? `${c.unread} unread` : '',
   ].filter(Boolean);
   return parts.length ? parts.join(' · ') : 'no test points';
+}
+
+/** A test point in a sentence: `R2 (V1 pin 7)`, `B+ → chassis`. */
+export function pointLabel(row: GridRow): string {
+  const what = row.component?.ref ?? (row.pair ? 'pair relation' : `${row.from ?? ''} → ${row.to ?? ''}`);
+  return row.socket ? `${what} (${row.socket.designator} pin ${row.socket.pin})` : what;
 }

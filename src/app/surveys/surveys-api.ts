@@ -10,6 +10,7 @@ import type {
   ReadingSaved,
   SurveyView,
 } from '@domain/set-format';
+import type { AssignmentDetail, AttemptSummary } from '@domain/class-format';
 import { callerHandles } from '../core/errors/api-error';
 
 /** POST /api/surveys/:id/lifted-leads */
@@ -63,6 +64,16 @@ export class SurveysApi {
 
   complete(id: number): Observable<unknown> {
     return this.http.post<unknown>(`/api/surveys/${id}/complete`, {}, { context: this.context });
+  }
+
+  /** A class survey handed in: the attempt frozen on the server (never queued offline). */
+  submit(id: number): Observable<AttemptSummary> {
+    return this.http.post<AttemptSummary>(`/api/surveys/${id}/submit`, {}, { context: this.context });
+  }
+
+  /** A class survey's assignment: the student's attempts (myAttempts) or, for its instructor, the queue. */
+  assignment(id: number): Observable<AssignmentDetail> {
+    return this.http.get<AssignmentDetail>(`/api/assignments/${id}`, { context: this.context });
   }
 
   amend(id: number, body: AmendmentInput): Observable<AmendmentRecord> {

@@ -25,6 +25,8 @@ const OUT: ReadonlySet<Verdict> = new Set<Verdict>(['high', 'low', 'open', 'shor
     '[class.pair]': 'state().row.pair !== null',
     '[attr.data-row]': 'state().row.testPointKey',
     '[attr.data-status]': 'state().status',
+    '[class.locked]': 'state().locked',
+    '[class.predicting]': 'state().predicting',
   },
 })
 export class GridRow {
@@ -33,6 +35,8 @@ export class GridRow {
   readonly editable = input.required<boolean>();
   readonly error = input<string | null>(null);
   readonly correcting = input(false);
+  /** A class survey that shows verdicts only after submission: glyph, word, drift and the implied value stay hidden. */
+  readonly verdictsHidden = input(false);
 
   protected readonly methodWords = METHOD_WORDS;
   protected readonly bandText = bandText;
@@ -40,13 +44,14 @@ export class GridRow {
 
   protected readonly verdict = computed<Verdict | null>(() => {
     const s = this.state();
+    if (this.verdictsHidden()) return null;
     return s.pair !== null ? (s.pair.verdict === 'not-read' ? null : s.pair.verdict) : (s.evaluation?.verdict ?? null);
   });
   protected readonly out = computed(() => {
     const v = this.verdict();
     return v !== null && OUT.has(v);
   });
-  protected readonly drift = computed(() => driftText(this.state().pair?.driftPct ?? this.state().evaluation?.driftPct ?? null));
+  protected readonly drift = computed(() => this.verdictsHidden() ? '' : driftText(this.state().pair?.driftPct ?? this.state().evaluation?.driftPct ?? null));
   protected readonly readingText = computed(() => {
     const r = this.state().reading;
     if (r === null) return '';
@@ -63,7 +68,8 @@ export class GridRow {
   protected readonly entryLabel = computed(() => {
     const row = this.state().row;
     const what = row.component?.ref ?? `${row.from ?? ''} to ${row.to ?? ''}`;
-    return `Reading for ${what}${row.socket ? ` (${row.socket.designator} pin ${row.socket.pin})` : ''}`;
+    const where = `${what}${row.socket ? ` (${row.socket.designator} pin ${row.socket.pin})` : ''}`;
+    return this.state().predicting ? `Predict the in-circuit reading for ${where}` : `Reading for ${where}`;
   });
   protected readonly statusWords = computed(() => {
     const s = this.state();

@@ -39,6 +39,8 @@ export interface CachedView {
   savedAt: string;
   /** Leads lifted on rows whose follow-up reading is not keyed yet (the API's view does not carry them). */
   lifts?: [string, { end: 0 | 1; followsReadingId: number | null; followsClientKey: string | null } | null][];
+  /** Predict-first class surveys: predictions typed on rows whose measured value is not keyed yet (test point key, text). */
+  predictions?: [string, string][];
 }
 
 interface OfflineSchema extends DBSchema {
@@ -92,8 +94,8 @@ export class SurveyDb {
     return db ? db.get('views', surveyId) : this.memViews.get(surveyId);
   }
 
-  async putView(view: SurveyView, lifts: CachedView['lifts'] = []): Promise<void> {
-    const entry: CachedView = { surveyId: view.survey.id, view, savedAt: new Date().toISOString(), lifts };
+  async putView(view: SurveyView, lifts: CachedView['lifts'] = [], predictions: CachedView['predictions'] = []): Promise<void> {
+    const entry: CachedView = { surveyId: view.survey.id, view, savedAt: new Date().toISOString(), lifts, predictions };
     const db = await this.open();
     if (db) await db.put('views', entry);
     else this.memViews.set(entry.surveyId, entry);

@@ -52,10 +52,14 @@ export class RowDetail {
   protected readonly methodWords = METHOD_WORDS;
   protected readonly ohms = ohmsOrDash;
   protected readonly bandText = bandText;
+  /** A class survey that shows verdicts only after submission. */
+  protected readonly hidden = this.session.verdictsHidden;
   protected readonly drift = computed(() => driftText(this.state().evaluation?.driftPct ?? null));
 
   protected readonly title = computed(() => {
     const r = this.state().row;
+    // Predict first: the part's value is the expectation, hidden until the prediction is typed.
+    if (r.component && this.state().predicting) return r.component.ref;
     return r.component ? `${r.component.ref} (${r.component.nominalText})` : r.pair ? 'Pair relation' : `${r.from} to ${r.to}`;
   });
   protected readonly nodes = computed(() => {
@@ -68,6 +72,7 @@ export class RowDetail {
   });
   protected readonly marks = computed<Readonly<Record<number, Verdict>>>(() => {
     const s = this.state().row.socket;
+    if (this.hidden()) return {};
     return (s && this.session.socketMarks().get(s.designator)) || {};
   });
   protected readonly reasonText = computed(() => {
@@ -76,9 +81,9 @@ export class RowDetail {
   });
   protected readonly band = computed(() => this.state().evaluation?.result?.band ?? null);
   protected readonly canLift = computed(() => this.editable() && this.state().row.component !== null && this.nodes() !== null);
-  protected readonly offersLift = computed(() => this.state().evaluation?.advice.includes('lift-a-lead') === true);
+  protected readonly offersLift = computed(() => !this.hidden() && this.state().evaluation?.advice.includes('lift-a-lead') === true);
   protected readonly showJoints = computed(
-    () => this.state().row.component !== null && (this.state().jointChecked || this.state().evaluation?.advice.includes('path-high') === true),
+    () => this.state().row.component !== null && (this.state().jointChecked || (!this.hidden() && this.state().evaluation?.advice.includes('path-high') === true)),
   );
   protected readonly previousText = computed(() => {
     const p = this.state().previous;

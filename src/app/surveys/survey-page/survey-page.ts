@@ -1,6 +1,7 @@
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, ElementRef, Injector, afterNextRender, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatTabsModule } from '@angular/material/tabs';
@@ -8,8 +9,9 @@ import { RouterLink } from '@angular/router';
 import { SafetyCaution } from '../../shared/safety-caution/safety-caution';
 import { GridRow } from '../grid-row/grid-row';
 import { RowDetail } from '../row-detail/row-detail';
+import { SubmitDialog, type SubmitData } from '../submit-dialog/submit-dialog';
 import { SurveySession } from '../survey-session';
-import { LEGEND, PURPOSE_WORDS, STATE_KEYS, SURVEY_STATE_WORDS, countsText } from '../survey-words';
+import { LEGEND, PURPOSE_WORDS, STATE_KEYS, SURVEY_STATE_WORDS, countsText, pointLabel } from '../survey-words';
 
 /**
  * `/surveys/:id`: the keyboard-first bench grid (issue #5 item 2, DESIGN.md §5). Type `470k`
@@ -30,6 +32,7 @@ export class SurveyPage {
   protected readonly session = inject(SurveySession);
   private readonly host = inject<ElementRef<HTMLElement>>(ElementRef);
   private readonly injector = inject(Injector);
+  private readonly dialog = inject(MatDialog);
 
   /** Route parameter. */
   readonly id = input.required<string>();
@@ -38,6 +41,7 @@ export class SurveyPage {
   protected readonly purposeWords = PURPOSE_WORDS;
   protected readonly stateWords = SURVEY_STATE_WORDS;
   protected readonly countsText = countsText;
+  protected readonly pointLabel = pointLabel;
 
   protected readonly stageIndex = signal(0);
   protected readonly focusedKey = signal<string | null>(null);
@@ -50,6 +54,37 @@ export class SurveyPage {
   protected readonly completeMessage = signal('');
   protected readonly confirmingComplete = signal(false);
   protected readonly busy = signal(false);
+  protected readonly submitMessage = signal('');
+
+  // Class surveys (issue #6): the assignment's header, predict first, hidden verdicts, re-measuring, submit.
+  protected readonly classwork = this.session.classwork;
+  protected readonly verdictsHidden = this.session.verdictsHidden;
+  /** The student doing the survey (not the instructor or an admin reading it). */
+  protected readonly isStudent = computed(() => this.classwork()?.viewer === 'student');
+  /** Submitted after the due date, or still open with the due date past. */
+  protected readonly late = computed(() => {
+    const cw = this.classwork();
+    const v = this.view();
+    if (!cw || !v) return false;
+    if (cw.late) return true;
+    return (v.survey.state === 'draft' || v.survey.state === 'returned') && Date.parse(cw.dueAt) < Date.now();
+  });
+  /** The requested test points of a returned survey, in bench order. */
+  protected readonly requestedRows = computed(() => {
+    const keys = this.session.remeasureKeys();
+    return keys === null ? [] : this.session.rows().filter((r) => keys.has(r.testPointKey));
+  });
+  /** How many test points have a reading (shown instead of the verdict counts while verdicts are hidden). */
+  protected readonly readCount = computed(() => {
+    let read = 0;
+    let all = 0;
+    for (const s of this.states().values()) {
+      if (s.row.pair !== null) continue;
+      all++;
+      if (s.reading !== null) read++;
+    }
+    return { read, all };
+  });
 
   protected readonly view = this.session.view;
   protected readonly stages = this.session.stages;
@@ -66,6 +101,11 @@ export class SurveyPage {
   protected readonly amendable = computed(() => this.view()?.survey.state === 'complete');
   /** Test point keys that take a reading, in bench order across stages. */
   private readonly entryKeys = computed(() => this.stages().flatMap((s) => s.rows.filter((r) => r.pair === null).map((r) => r.testPointKey)));
+  /** A returned class survey: Enter after a reading goes on to the next requested test point. */
+  private readonly openKeys = computed(() => {
+    const keys = this.session.remeasureKeys();
+    return keys === null ? this.entryKeys() : this.entryKeys().filter((k) => keys.has(k));
+  });
   protected readonly needsMeterCheck = computed(() => {
     const v = this.view();
     return v !== null && this.editable() && v.survey.meter !== null && this.session.meterCheck() === null;
@@ -105,6 +145,7 @@ export class SurveyPage {
     switch (code) {
       case 'Enter':
         if (this.correcting() === key) void this.saveCorrection(key, input);
+        else if (!empty && this.states().get(key)?.predicting) this.predict(key, input);
         else if (!empty) this.save(key, { text: input.value }, input);
         else this.move(key, 1);
         return true;
@@ -121,6 +162,8 @@ export class SurveyPage {
         this.moveStage(-1);
         return true;
       case 'Escape':
+        // Esc on an empty field takes a typed prediction back: the row asks for one again.
+        if (empty && this.states().get(key)?.predictionWaiting) this.session.setPrediction(key, null);
         input.value = '';
         this.setError(key, null);
         this.correcting.set(null);
@@ -130,7 +173,9 @@ export class SurveyPage {
         this.startCorrection(key);
         return true;
     }
-    if (!empty || modified || !this.editable()) return false;
+    if (!empty || modified || !this.rowEditable(key)) return false;
+    // Predict first: letters are typed into the prediction, not taken as state keys.
+    if (this.states().get(key)?.predicting) return false;
     if (this.choosingEnd() === key && (code === '1' || code === '2')) {
       this.chooseEnd(key, code === '1' ? 0 : 1);
       return true;
@@ -179,7 +224,29 @@ export class SurveyPage {
     input.value = '';
     this.setError(key, null);
     afterNextRender(() => performance.mark('verdict-shown'), { injector: this.injector });
-    this.move(key, 1);
+    this.move(key, 1, this.openKeys());
+  }
+
+  /** Predict first: the prediction is kept and the same field now asks for the measured value. */
+  private predict(key: string, input: HTMLInputElement): void {
+    const error = this.session.predict(key, input.value);
+    this.setError(key, error);
+    if (error === null) input.value = '';
+  }
+
+  /** The row takes readings: the survey does, and a returned survey asked for this test point. */
+  protected rowEditable(key: string): boolean {
+    return this.editable() && this.states().get(key)?.locked !== true;
+  }
+
+  /** A requested test point chosen from the banner: its stage and its field. */
+  protected goTo(key: string): void {
+    const stage = this.stages().findIndex((s) => s.rows.some((r) => r.testPointKey === key));
+    if (stage < 0) return;
+    if (stage !== this.stageIndex()) {
+      this.stageIndex.set(stage);
+      this.focusAfterRender(key);
+    } else this.inputOf(key)?.focus();
   }
 
   private async saveCorrection(key: string, input: HTMLInputElement): Promise<void> {
@@ -193,7 +260,8 @@ export class SurveyPage {
 
   protected startCorrection(key: string): void {
     const s = this.states().get(key);
-    if (!this.editable() || !s?.record) return;
+    // A returned class survey takes new readings (which follow the submitted ones), not corrections.
+    if (!this.rowEditable(key) || !s?.record || this.view()?.survey.state === 'returned') return;
     this.correcting.set(key);
     const input = this.inputOf(key);
     if (input) {
@@ -205,7 +273,7 @@ export class SurveyPage {
 
   protected askLift(key: string): void {
     const s = this.states().get(key);
-    if (!s?.row.component || !this.editable()) return;
+    if (!s?.row.component || !this.rowEditable(key)) return;
     if (s.lift !== null) {
       this.session.cancelLift(key);
       return;
@@ -227,10 +295,18 @@ export class SurveyPage {
     this.inputOf(key)?.focus();
   }
 
-  private move(key: string, delta: number): void {
+  private move(key: string, delta: number, among: readonly string[] = this.entryKeys()): void {
     const keys = this.entryKeys();
     const i = keys.indexOf(key);
-    const next = keys[i + delta];
+    // The next key after this one (in bench order) that is among the keys asked for.
+    const allowed = new Set(among);
+    let next: string | undefined;
+    for (let j = i + delta; j >= 0 && j < keys.length; j += delta) {
+      if (allowed.has(keys[j])) {
+        next = keys[j];
+        break;
+      }
+    }
     if (next === undefined) return;
     const stage = this.stages().findIndex((s) => s.rows.some((r) => r.testPointKey === next));
     if (stage !== this.stageIndex()) {
@@ -279,6 +355,38 @@ export class SurveyPage {
     this.busy.set(false);
     this.confirmingComplete.set(false);
     this.completeMessage.set(error ?? '');
+  }
+
+  /** Submit (class surveys): a dialog names what is unread; the submission itself needs the server. */
+  protected openSubmit(): void {
+    const v = this.view();
+    const cw = this.classwork();
+    if (!v || !cw || this.busy()) return;
+    this.submitMessage.set('');
+    if (typeof navigator !== 'undefined' && navigator.onLine === false) {
+      this.submitMessage.set('Submitting needs the server, and this device is offline. Your readings are kept in this browser; submit when it is back online.');
+      return;
+    }
+    const data: SubmitData = {
+      title: cw.title,
+      unread: this.session.unreadRows().map(pointLabel),
+      remeasureLeft: this.session.remeasureLeft().map(pointLabel),
+      attemptNumber: cw.attemptCount + 1,
+      late: Date.parse(cw.dueAt) < Date.now(),
+    };
+    this.dialog
+      .open<SubmitDialog, SubmitData, boolean>(SubmitDialog, { data, width: '560px', maxWidth: '95vw' })
+      .afterClosed()
+      .subscribe((ok) => {
+        if (ok === true) void this.submit();
+      });
+  }
+
+  private async submit(): Promise<void> {
+    this.busy.set(true);
+    const error = await this.session.submit();
+    this.busy.set(false);
+    this.submitMessage.set(error ?? '');
   }
 
   protected valueOf(el: HTMLInputElement): string {

@@ -1,3 +1,4 @@
+import type { AttemptSummary, Classwork } from '@domain/class-format';
 import type { ReadingRecord, ReadingSaved, SurveyView } from '@domain/set-format';
 import { SurveyGrid, parseReadingText } from '@domain/survey-grid';
 import type { TemplateDocument, TubeTypeRecord } from '@domain/template-format';
@@ -93,4 +94,41 @@ export function savedAnswer(view: SurveyView, rec: ReadingRecord, replayed = fal
     conditions: view.survey.conditions,
   });
   return { reading: rec, evaluation: grid.evaluate(rec), replayed };
+}
+
+/** A class survey's classwork as the API adds it (an invented assignment of an invented class). */
+export function classwork(over: Partial<Classwork> = {}): Classwork {
+  return {
+    assignmentId: 21,
+    classId: 4,
+    title: 'Wren 3: first audio stage',
+    dueAt: '2099-03-01T17:00:00Z',
+    late: false,
+    predictFirst: false,
+    showVerdicts: true,
+    remeasureKeys: null,
+    attemptCount: 0,
+    viewer: 'student',
+    ...over,
+  };
+}
+
+/** A student's class survey of the spec chassis (purpose assignment). */
+export function classSurveyView(cw: Partial<Classwork> = {}, over: Partial<SurveyView['survey']> = {}, extra: Partial<SurveyView> = {}): SurveyView {
+  return surveyView({ purpose: 'assignment', ...over }, { classwork: classwork(cw), ...extra });
+}
+
+/** An attempt as POST /api/surveys/:id/submit answers it. */
+export function attempt(over: Partial<AttemptSummary> = {}): AttemptSummary {
+  return {
+    id: 41,
+    surveyId: 5,
+    assignmentId: 21,
+    number: 1,
+    student: { id: 7, name: 'Ada Voss' },
+    submittedAt: '2026-11-30T12:00:00Z',
+    late: false,
+    review: null,
+    ...over,
+  };
 }
