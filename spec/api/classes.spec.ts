@@ -300,6 +300,14 @@ describe('Classes', () => {
       expect(await memberRow(c.id, intruder.user.id)).toBeUndefined();
       expect((await request(env.app).get(`/api/class-invitations/${inv.token}`)).body.state).toBe('open');
 
+      // The join takes no fields (it is not in the bad-input table: an empty body is its valid request).
+      for (const bad of [{ classId: c.id }, [], { roles: ['admin'] }]) {
+        const r2 = await request(env.app).post(`/api/class-invitations/${inv.token}/join`).set(bearer(invited)).send(bad);
+        expect(r2.status).withContext(JSON.stringify(bad)).toBe(400);
+        expect(r2.body.error.code).toBe('validation');
+      }
+      expect(await memberRow(c.id, invited.user.id)).toBeUndefined();
+
       const ok = await request(env.app).post(`/api/class-invitations/${inv.token}/join`).set(bearer(invited)).send({});
       expect(ok.status).toBe(200);
       expect(ok.body.user.roles).toEqual(['student']);
