@@ -54,6 +54,17 @@ describe('SurveyDb', () => {
     await second.close();
   });
 
+  it('keeps a class survey’s typed predictions with its copy across a new connection; a later copy without them drops them', async () => {
+    const first = freshStore();
+    await first.putView(surveyView(), [], [['tp-r2', '240k']]);
+    await first.close();
+    const second = freshStore();
+    expect((await second.view(5))?.predictions).toEqual([['tp-r2', '240k']]);
+    await second.putView(surveyView(), []);
+    expect((await second.view(5))?.predictions).toEqual([]);
+    await second.close();
+  });
+
   it('numbers writes in the order they are made', () => {
     const seqs = [nextSeq(), nextSeq(), nextSeq()];
     expect(seqs[0]).toBeLessThan(seqs[1]);

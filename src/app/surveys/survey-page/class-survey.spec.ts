@@ -9,7 +9,7 @@ import { clearAuthStorage, nextRequest, nextTask, sessionFor } from '../../../te
 import { Auth } from '../../core/auth/auth';
 import { authToken } from '../../core/http/auth-token';
 import { httpErrors } from '../../core/http/http-errors';
-import { SURVEY_DB_NAME } from '../offline/survey-db';
+import { SURVEY_DB_NAME, SurveyDb, type CachedView } from '../offline/survey-db';
 import { attempt, classSurveyView, record, savedAnswer } from '../testing/survey-fixtures';
 import { SurveyPage } from './survey-page';
 
@@ -96,6 +96,17 @@ describe('SurveyPage (class survey)', () => {
     if (view === 'away') get.error(new ProgressEvent('error'), { status: 0, statusText: 'Unknown Error' });
     else get.flush(view);
     await settle();
+  }
+
+  /** This browser's copy of survey 5 once it is written as `ok` says (IndexedDB answers in its own time). */
+  async function copyKept(ok: (c: CachedView) => boolean = () => true): Promise<void> {
+    const db = TestBed.inject(SurveyDb);
+    for (let i = 0; i < 100; i++) {
+      const c = await db.view(5);
+      if (c !== undefined && ok(c)) return;
+      await nextTask(20);
+    }
+    fail('this browser’s copy of the survey was not written');
   }
 
   async function settle(): Promise<void> {
@@ -223,12 +234,14 @@ describe('SurveyPage (class survey)', () => {
     type('tp-r2', '240k');
     await settle();
     expect(row('tp-r2').querySelector('[data-test="predicted"]')).not.toBeNull();
+    await copyKept((c) => c.predictions?.length === 1);
     fixture.destroy();
 
     // Reloaded (the API answers again): the prediction is still there and goes with the measured value.
     await open(view);
     expect(row('tp-r2').querySelector('[data-test="predicted"]')!.textContent).toContain('240k');
     expect(row('tp-r2').querySelector('[data-test="concealed"]')).toBeNull();
+    await copyKept((c) => c.predictions?.length === 1 && c.view.classwork?.predictFirst === true);
     fixture.destroy();
 
     // Reloaded with the API away: this browser's copy still has it.
@@ -239,6 +252,7 @@ describe('SurveyPage (class survey)', () => {
     await settle();
     expect(row('tp-r2').querySelector('[data-test="predicted"]')).toBeNull();
     expect(row('tp-r2').querySelector('[data-test="concealed"]')).not.toBeNull();
+    await copyKept((c) => c.predictions?.length === 0);
     fixture.destroy();
 
     // Taken back, it stays taken back after a reload.
@@ -280,6 +294,10 @@ describe('SurveyPage (class survey)', () => {
     expect(row('tp-r2').classList).toContain('out');
     expect(row('tp-r2').querySelector('.drift')!.textContent).toContain('+32.0 %');
     expect(el.querySelector('[data-test="verdicts-note"]')).toBeNull();
+    // Read-only, with the way to the submission (the newest of the student's attempts).
+    expect(text('[data-test="submitted-readonly"]')).toContain('read-only until your instructor reviews it');
+    expect(el.querySelector('[data-test="review-link"]')!.getAttribute('href')).toBe('/attempts/41/review');
+    expect(input('tp-r2').readOnly).toBeTrue();
     fixture.destroy();
     http.verify();
 
@@ -328,6 +346,24 @@ describe('SurveyPage (class survey)', () => {
     req.flush(savedAnswer(view, record('tp-r2', '255k', { clientKey: body.clientKey, followsReadingId: r2.id, takenAt: '2026-12-01T09:00:00Z' })), { status: 201, statusText: 'Created' });
     await settle();
     expect(row('tp-r2').querySelector('.current')!.textContent).toContain('255k');
+    // Submitting again: the dialog no longer names R2 as not re-measured (before, it did: see below).
+    el.querySelector<HTMLButtonElement>('[data-test="submit"]')!.click();
+    await settle();
+    expect(el.querySelector('[data-test="submit"]')!.textContent).toContain('Submit again');
+    expect(dialog()!.querySelector('[data-test="submit-remeasure-left"]')).toBeNull();
+    expect(dialog()!.textContent).toContain('Attempt 2');
+  });
+
+  it('returned: the Submit dialog names requested points not re-measured since the submission', async () => {
+    const r2 = record('tp-r2', '330k', { takenAt: '2026-11-30T09:06:00Z' });
+    const view = classSurveyView({ remeasureKeys: ['tp-r2'], attemptCount: 1 }, { state: 'returned' }, { readings: [r2] });
+    await open(view);
+    (await nextRequest(http, (r) => r.method === 'GET' && r.url === '/api/assignments/21')).flush(assignmentDetail({ myStatus: 'returned', myAttempts: [attempt()] }));
+    await settle();
+    el.querySelector<HTMLButtonElement>('[data-test="submit"]')!.click();
+    await settle();
+    expect(dialog()!.querySelector('[data-test="submit-remeasure-left"]')!.textContent).toContain('R2');
+    expect(dialog()!.querySelector('[data-test="submit-confirm"]')!.textContent).toContain('Submit anyway');
   });
 
   it('Submit: a dialog names the unread points; "Not yet" sends nothing; confirmed, the survey is read-only with a link to the submission', async () => {
@@ -391,6 +427,7 @@ describe('SurveyPage (class survey)', () => {
   it('offline from this browser’s copy: keying goes on, and Submit says it needs the server', async () => {
     const view = classSurveyView();
     await open(view);
+    await copyKept();
     fixture.destroy();
     await open('away');
     expect(text('[data-test="submit-offline"]')).toContain('needs the server');
