@@ -62,14 +62,14 @@ export const ROLE_SECTIONS: Readonly<Record<Role, RoleSection>> = {
       "Review each student's readings, comment, return or accept, score",
       'Sign off competencies',
     ],
-    links: [QUICK_CHECK],
+    links: [{ label: 'Classes', link: '/classes' }, QUICK_CHECK],
   },
   student: {
     role: 'student',
     title: 'Your assignments',
     summary: 'Do the surveys your instructor assigns and learn from the feedback.',
     tasks: ['Survey the assigned training set and submit it', 'Read the feedback and redo what was asked'],
-    links: [QUICK_CHECK],
+    links: [{ label: 'Your classes and assignments', link: '/classes' }, { label: 'Your competencies', link: '/competencies' }, QUICK_CHECK],
   },
 };
 

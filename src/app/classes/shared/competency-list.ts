@@ -44,7 +44,7 @@ export interface WithdrawRequest {
               <form class="inline" (submit)="$event.preventDefault(); confirm(item.key, item.current)">
                 <mat-form-field subscriptSizing="dynamic" class="note">
                   <mat-label>{{ item.current ? 'Why it is withdrawn' : 'Note (what you saw)' }}</mat-label>
-                  <input matInput [formControl]="note" autocomplete="off" />
+                  <input matInput [formControl]="note" autocomplete="off" data-note />
                 </mat-form-field>
                 <button mat-flat-button type="submit" class="dm-touch" [disabled]="busy()">{{ item.current ? 'Withdraw' : 'Sign off' }}</button>
                 <button mat-button type="button" class="dm-touch" (click)="open.set(null)">Cancel</button>
