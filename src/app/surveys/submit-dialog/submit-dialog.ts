@@ -43,10 +43,14 @@ export interface SubmitData {
       }
     </mat-dialog-content>
     <mat-dialog-actions align="end">
-      <button mat-button type="button" class="dm-touch" [mat-dialog-close]="false">Not yet</button>
-      <button mat-flat-button type="button" class="dm-touch" [mat-dialog-close]="true" cdkFocusInitial data-test="submit-confirm">
-        {{ data.unread.length || data.remeasureLeft.length ? 'Submit anyway' : 'Submit' }}
-      </button>
+      @if (data.unread.length || data.remeasureLeft.length) {
+        <!-- Something is left: Enter keeps the survey open; submitting anyway is a deliberate choice. -->
+        <button mat-button type="button" class="dm-touch" [mat-dialog-close]="false" cdkFocusInitial>Not yet</button>
+        <button mat-flat-button type="button" class="dm-touch" [mat-dialog-close]="true" data-test="submit-confirm">Submit anyway</button>
+      } @else {
+        <button mat-button type="button" class="dm-touch" [mat-dialog-close]="false">Not yet</button>
+        <button mat-flat-button type="button" class="dm-touch" [mat-dialog-close]="true" cdkFocusInitial data-test="submit-confirm">Submit</button>
+      }
     </mat-dialog-actions>
   `,
   styles: ['.late { color: var(--mat-sys-error); }'],

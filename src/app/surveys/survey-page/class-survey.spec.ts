@@ -377,6 +377,7 @@ describe('SurveyPage (class survey)', () => {
     expect(unread).toContain('R1');
     expect(unread).toContain('R3');
     expect(unread).not.toContain('R2');
+    expect(dialog()!.querySelector('[data-test="submit-confirm"]')!.textContent!.trim()).toBe('Submit anyway');
     Array.from(dialog()!.querySelectorAll('button')).find((b) => b.textContent!.includes('Not yet'))!.click();
     expect(await dialogGone()).toBeTrue();
     expect(http.match((r) => r.url.endsWith('/submit')).length).toBe(0);
@@ -394,6 +395,17 @@ describe('SurveyPage (class survey)', () => {
     expect(input('tp-r1').readOnly).toBeTrue();
     expect(text('[data-test="submitted-readonly"]')).toContain('read-only');
     expect(el.querySelector('[data-test="review-link"]')!.getAttribute('href')).toBe('/attempts/41/review');
+  });
+
+  it('Submit with every test point read: the dialog says so and offers a plain Submit', async () => {
+    const readings = [record('tp-r1', '10M'), record('tp-r2', '260k'), record('tp-v1p', '255k'), record('tp-r3', '1k2')];
+    await open(classSurveyView({}, {}, { readings }));
+    el.querySelector<HTMLButtonElement>('[data-test="submit"]')!.click();
+    await settle();
+    expect(dialog()!.querySelector('[data-test="submit-all-read"]')).not.toBeNull();
+    expect(dialog()!.querySelector('[data-test="submit-unread"]')).toBeNull();
+    expect(dialog()!.querySelector('[data-test="submit-confirm"]')!.textContent!.trim()).toBe('Submit');
+    expect(dialog()!.textContent).toContain('Attempt 1');
   });
 
   it('Submit needs the server: unreachable, it is not queued and says so; the survey stays open', async () => {
