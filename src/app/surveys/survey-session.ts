@@ -584,6 +584,11 @@ export class SurveySession {
   private applyRefused(item: OutboxItem, conflict: ReadingConflict | null): void {
     this.outbox.update((list) => list.map((i) => (i.seq === item.seq ? item : i)));
     if (conflict !== null) this.setConflict(conflict.current.testPointKey, conflict);
+    if (item.op.kind === 'reading' && item.op.input.prediction) {
+      // The refused reading took its prediction along: the row has no reading again, so the prediction waits for the next one.
+      const key = item.op.input.testPointKey;
+      if (!this.predictions().has(key) && !this.current().has(key)) this.setPrediction(key, item.op.input.prediction);
+    }
   }
 
   // -------------------------------------------------------------------------------------------

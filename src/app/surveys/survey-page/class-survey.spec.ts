@@ -213,6 +213,22 @@ describe('SurveyPage (class survey)', () => {
     await settle();
   });
 
+  it('predict first: a measured value the server refuses gives its prediction back to the row', async () => {
+    await open(classSurveyView({ predictFirst: true }));
+    type('tp-r2', '240k');
+    await settle();
+    type('tp-r2', '262k');
+    const req = await postedReading();
+    expect((req.request.body as ReadingInput).prediction).toBe('240k');
+    // While it waits, the row shows the reading and its prediction.
+    expect(row('tp-r2').querySelector('[data-test="prediction"]')!.textContent).toContain('240k');
+    req.flush({ error: { code: 'survey-not-draft', message: 'This survey is submitted: it waits for the instructor’s review.' } }, { status: 409, statusText: 'Conflict' });
+    await settle();
+    expect(row('tp-r2').querySelector('.error')!.textContent).toContain('submitted');
+    expect(row('tp-r2').querySelector('[data-test="predicted"]')!.textContent).toContain('predicted 240k');
+    expect(row('tp-r2').querySelector('[data-test="concealed"]')).toBeNull();
+  });
+
   it('predict first leaves rows alone outside predict-first assignments and on rows already read', async () => {
     const stored = record('tp-r1', '10M');
     await open(classSurveyView({ predictFirst: true }, {}, { readings: [stored] }));
