@@ -16,6 +16,9 @@ export const DUE_REMINDERS_QUEUE = 'due-reminders';
 /** Every 15 minutes (cron, UTC). */
 export const DUE_REMINDERS_CRON = '*/15 * * * *';
 
+/** One job at a time; a failed run is retried a few times a minute apart (the next quarter hour runs anyway). */
+export const DUE_REMINDERS_QUEUE_OPTIONS: PgBoss.Queue = { name: DUE_REMINDERS_QUEUE, retryLimit: 3, retryDelay: 60, policy: 'singleton' };
+
 type Deps = Pick<Ctx, 'db' | 'outbox' | 'linkBase'>;
 
 /** Sends the reminders due at `now`; answers how many went out. */
@@ -62,7 +65,7 @@ export async function sendDueReminders(ctx: Deps, now: Date = new Date()): Promi
  * API process may call this) and, unless `worker: false`, a worker that runs the job.
  */
 export async function scheduleDueReminders(boss: PgBoss, ctx: Deps, opts: { worker?: boolean; onError?: (err: Error) => void } = {}): Promise<void> {
-  await boss.createQueue(DUE_REMINDERS_QUEUE, { name: DUE_REMINDERS_QUEUE, retryLimit: 3, retryDelay: 60, policy: 'singleton' });
+  await boss.createQueue(DUE_REMINDERS_QUEUE, DUE_REMINDERS_QUEUE_OPTIONS);
   await boss.schedule(DUE_REMINDERS_QUEUE, DUE_REMINDERS_CRON, {}, { tz: 'UTC' });
   if (opts.worker !== false) {
     await boss.work(DUE_REMINDERS_QUEUE, { pollingIntervalSeconds: 30 }, async () => {

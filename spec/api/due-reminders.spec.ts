@@ -11,7 +11,7 @@ import { and, eq, inArray } from 'drizzle-orm';
 import request from 'supertest';
 import { dueReminders, notifications, users } from '../../schema/index';
 import { DUE_REMINDER_HOURS } from '../../api/domain/class-format';
-import { DUE_REMINDERS_CRON, DUE_REMINDERS_QUEUE, sendDueReminders } from '../../api/classes/due-reminders';
+import { DUE_REMINDERS_CRON, DUE_REMINDERS_QUEUE, DUE_REMINDERS_QUEUE_OPTIONS, sendDueReminders } from '../../api/classes/due-reminders';
 import { startServer } from '../../api/server';
 import { apiEnv, bearer, makeUser, signIn, testConfig } from '../support/api-env';
 import { addStudent, makeAssignment, makeClass, makeClassSurvey } from '../support/class-fixtures';
@@ -94,16 +94,28 @@ describe('Due-date reminders', () => {
     expect(notes.map((n) => n.title).sort()).toEqual(['“Survey the training chassis” is due in 10 hours', '“Survey the training chassis” is due in 40 hours']);
   });
 
-  it(`is scheduled by the server in pg-boss: queue "${DUE_REMINDERS_QUEUE}", every 15 minutes`, async () => {
+  it(`is scheduled by the server in pg-boss (queue "${DUE_REMINDERS_QUEUE}", every 15 minutes), whose worker sends the reminders`, async () => {
     const env = await apiEnv();
+    const boss = env.queue.boss;
+    // A run already queued (as the schedule queues one each quarter hour) for the server's worker to take when it starts.
+    const c = await makeClass();
+    const a = await makeAssignment({ classId: c.id, title: 'Queued reminder', dueAt: hours(new Date(), 2) });
+    const student = await makeUser(['student']);
+    await addStudent(c.id, student.id);
+    await boss.createQueue(DUE_REMINDERS_QUEUE, DUE_REMINDERS_QUEUE_OPTIONS);
+    await boss.unschedule(DUE_REMINDERS_QUEUE);
+    expect((await boss.getSchedules()).some((x) => x.name === DUE_REMINDERS_QUEUE)).withContext('no schedule before the server starts').toBeFalse();
+    await boss.send(DUE_REMINDERS_QUEUE, {});
+
     const running = await startServer({ config: testConfig({ JWT_SECRET: env.config.jwtSecret, PORT: '0', HOST: '127.0.0.1' }), databaseUrl: env.databaseUrl, smtpUrl: env.mail.url });
     try {
-      const schedules = await env.queue.boss.getSchedules();
-      const s = schedules.find((x) => x.name === DUE_REMINDERS_QUEUE);
-      expect(s).withContext(JSON.stringify(schedules)).toBeDefined();
+      const s = (await boss.getSchedules()).find((x) => x.name === DUE_REMINDERS_QUEUE);
+      expect(s).withContext('the schedule the server made').toBeDefined();
       expect(s!.cron).toBe('*/15 * * * *');
       expect(DUE_REMINDERS_CRON).toBe('*/15 * * * *');
-      expect(await env.queue.boss.getQueue(DUE_REMINDERS_QUEUE)).not.toBeNull();
+      const mail = await env.mail.waitFor(student.email, /Queued reminder/, 20_000);
+      expect(mail.text).toContain(`/assignments/${a.id}`);
+      expect((await env.database.db.select().from(dueReminders).where(eq(dueReminders.assignmentId, a.id))).map((r) => r.studentId)).toEqual([student.id]);
     } finally {
       await running.close();
     }
