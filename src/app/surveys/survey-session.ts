@@ -342,6 +342,11 @@ export class SurveySession {
 
   async load(surveyId: number): Promise<void> {
     this.sender?.dispose();
+    if (this.surveyId() !== surveyId) {
+      // Another survey on the same page: its predictions and attempts are its own.
+      this.predictions.set(new Map());
+      this.latestAttempt.set(null);
+    }
     this.surveyId.set(surveyId);
     this.loadState.set('loading');
     this.sender = new OutboxSender(surveyId, this.db, this.api, {
