@@ -3,10 +3,11 @@
  * "bring-up log", "replacement list" marks; §6 provenance label): each takes `db` or a
  * transaction `tx`. Gate signatures, parts-record lines and bring-up entries are append-only.
  */
-import { and, asc, desc, eq, inArray, isNull } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, isNull, sql } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
-import { bringUpEntries, gateSignatures, partsRecord, provenanceLabels, replacementMarks, sets, templateVersions, users } from '../../schema/index';
+import { bringUpEntries, gateSignatures, partsRecord, provenanceLabels, readings, replacementMarks, sets, templateVersions, users } from '../../schema/index';
 import type { GateAction, GateSignatureInput } from '../domain/gates';
+import type { GridReading } from '../domain/survey-grid';
 import type { BringUpEntry, BringUpStep, NewPart, PartsAction, PartsRecordLine, PersonRef } from '../domain/set-format';
 import type { TemplateDocument } from '../domain/template-format';
 import type { Tx } from '../db';
@@ -194,4 +195,56 @@ export async function newestVersion(tx: Tx, templateId: number): Promise<{ id: n
     .orderBy(desc(templateVersions.number))
     .limit(1);
   return v ? { id: v.id, number: v.number ?? 0, document: v.content as TemplateDocument } : undefined;
+}
+
+// ---------------------------------------------------------------------------------------------
+// History
+
+/** What a set's history reads of a reading: what the grid evaluates, and when it was taken. */
+export interface HistoryReading extends GridReading {
+  /** ISO 8601 in UTC with milliseconds, as in ReadingRecord.takenAt. */
+  takenAt: string;
+}
+
+/**
+ * The readings of several surveys, only the columns the history uses, oldest first per survey
+ * (plain rows: a set's ten surveys are 2,500 readings, and building the whole reading record as
+ * JSON for each made this the slowest query of the history).
+ */
+export async function historyReadingsOf(tx: Tx, surveyIds: number[]): Promise<Map<number, HistoryReading[]>> {
+  const out = new Map<number, HistoryReading[]>(surveyIds.map((id) => [id, []]));
+  if (!surveyIds.length) return out;
+  const rows = await tx
+    .select({
+      surveyId: readings.surveyId,
+      id: readings.id,
+      testPointKey: readings.testPointKey,
+      followsReadingId: readings.followsReadingId,
+      text: readings.text,
+      state: readings.state,
+      ohms: readings.ohms,
+      method: readings.method,
+      liftedEnd: readings.liftedEnd,
+      rangeIndex: readings.rangeIndex,
+      // The same text as the reading record's (surveys.repository.ts readingsOfSurveys).
+      takenAt: sql<string>`to_char(${readings.takenAt} AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')`,
+    })
+    .from(readings)
+    .where(inArray(readings.surveyId, surveyIds))
+    .orderBy(asc(readings.id));
+  for (const r of rows) {
+    out.get(r.surveyId)?.push({
+      id: r.id,
+      testPointKey: r.testPointKey,
+      followsReadingId: r.followsReadingId,
+      text: r.text,
+      state: r.state,
+      ohms: r.ohms,
+      method: r.method,
+      liftedEnd: r.liftedEnd as 0 | 1 | null,
+      rangeIndex: r.rangeIndex,
+      takenAt: r.takenAt,
+    });
+  }
+  return out;
 }

@@ -24,6 +24,7 @@ import { tubeTypeRecords } from '../templates/templates.repository';
 import { tubeTypesOf } from '../templates/template-rules';
 import * as repo from './records.repository';
 import { gatesOf, hashToken, type Gates } from './records.use-cases';
+import { surveyPoints } from './history-points';
 import { csvField } from '../domain/replacement-list';
 import type { ReplacementsQuery } from './records.schema';
 
@@ -129,41 +130,17 @@ export async function getHistory(ctx: Deps, user: Actor, setId: number): Promise
   const db = ctx.db;
   const { set } = await visibleSet(db, user, setId);
   const list = (await surveysOfSet(db, set.id)).filter((s) => COMPLETE_STATES.has(s.state));
-  const readings = await readingsOfSurveys(
+  const readings = await repo.historyReadingsOf(
     db,
     list.map((s) => s.id),
   );
   const points = new Map<string, { ref: string; points: HistoryPointInput[] }>();
   for (const s of list) {
-    const grid = await gridOf(db, s, set);
-    const meter = (s.meter as MeterSnapshot | null)?.name ?? null;
-    const jointChecks = s.jointChecks as Record<string, unknown>;
-    for (const [key, r] of currentReadings(readings.get(s.id) ?? [])) {
-      const row = grid.row(key);
-      if (!row || row.kind !== 'component-check' || !row.component || row.excluded) continue;
-      const nominalOhms = row.expected && 'ohms' in row.expected ? row.expected.ohms : null;
-      const ev = grid.evaluate(gridReadingOf(r), { jointChecked: key in jointChecks });
-      // In circuit, where the network gives the part's implied value, the point is that value; its
-      // uncertainty is half its honest interval (the meter's U and the other parts' tolerances, DESIGN.md §3.5).
-      const implied = r.method === 'in-circuit' && ev.implied?.ohms != null ? ev.implied : null;
-      const half = implied && implied.lowOhms !== null && implied.highOhms !== null ? (implied.highOhms - implied.lowOhms) / 2 : null;
-      const p: HistoryPointInput = {
-        surveyId: s.id,
-        readingId: r.id,
-        at: r.takenAt,
-        state: r.state,
-        ohms: implied ? implied.ohms : r.ohms,
-        valueFrom: implied ? 'implied' : 'reading',
-        nominalOhms,
-        uncertaintyOhms: implied ? half : ev.uncertaintyOhms,
-        band: row.band ? { lowPct: row.band.lowPct, highPct: row.band.highPct } : null,
-        verdict: ev.verdict,
-        method: r.method,
-        meter,
-      };
-      const entry = points.get(row.component.key) ?? { ref: row.component.ref, points: [] };
-      entry.points.push(p);
-      points.set(row.component.key, entry);
+    // Each survey's points: computed with its grid, or kept from an earlier answer while nothing they come from changed.
+    for (const { componentKey, ref, point } of await surveyPoints(s, set, readings.get(s.id) ?? [], () => gridOf(db, s, set))) {
+      const entry = points.get(componentKey) ?? { ref, points: [] };
+      entry.points.push(point);
+      points.set(componentKey, entry);
     }
   }
   const replacements = new Map<string, { ref: string; list: PartReplacementInput[] }>();
