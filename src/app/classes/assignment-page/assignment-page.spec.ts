@@ -2,6 +2,7 @@ import { HttpTestingController } from '@angular/common/http/testing';
 import { ComponentFixture } from '@angular/core/testing';
 import { HarnessLoader } from '@angular/cdk/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
+import { MatInputHarness } from '@angular/material/input/testing';
 import type { AssignmentDetail } from '@domain/class-format';
 import { clearAuthStorage, nextRequest } from '../../../testing/http-testing';
 import { apiError, classBed, mountPage } from '../testing/class-bed';
@@ -119,5 +120,40 @@ describe('queueOrder', () => {
     const q = assignmentDetail().queue;
     const late = { ...q[0], student: { id: 30, name: 'Ada Late' }, latestAttempt: { ...q[0].latestAttempt!, submittedAt: '2030-04-05T10:00:00Z' } };
     expect(queueOrder([q[2], late, q[1], q[0]]).map((e) => e.student.name)).toEqual(['Tomas Brell', 'Ada Late', 'Ines Marlow', 'Pell Orrin']);
+  });
+});
+
+describe('AssignmentPage, changing the assignment', () => {
+  let http: HttpTestingController;
+
+  beforeEach(() => ({ http } = classBed(['instructor'], 7)));
+  afterEach(() => {
+    http.verify();
+    clearAuthStorage();
+  });
+
+  it('refuses a due date moved into the past, then sends only the changed fields', async () => {
+    const { fixture, loader, text } = await mountPage(AssignmentPage, { id: '41' });
+    (await nextRequest(http, '/api/assignments/41')).flush(assignmentDetail());
+    await fixture.whenStable();
+    await (await loader.getHarness(MatButtonHarness.with({ text: /Change the assignment/ }))).click();
+    (await nextRequest(http, '/api/sets/5/surveys')).flush({ items: [] });
+    await fixture.whenStable();
+    const due = await loader.getHarness(MatInputHarness.with({ selector: '[formControlName=dueAt]' }));
+    await due.setValue('2001-01-01T10:00');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Save' }))).click();
+    await fixture.whenStable();
+    expect(text()).toContain('The due date is in the past.');
+    http.expectNone((r) => r.method === 'PATCH');
+
+    await due.setValue('2031-05-01T18:00');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Save' }))).click();
+    const req = await nextRequest(http, (r) => r.method === 'PATCH');
+    expect(req.request.url).toBe('/api/assignments/41');
+    expect(req.request.body).toEqual({ dueAt: new Date('2031-05-01T18:00').toISOString() });
+    req.flush(assignmentDetail({ dueAt: new Date('2031-05-01T18:00').toISOString() }));
+    await fixture.whenStable();
+    expect(text()).toContain('Assignment saved.');
+    expect(text()).toContain('2031');
   });
 });

@@ -16,6 +16,7 @@ import { MetersApi } from '../../meters/meters-api';
 import { HOT_CHASSIS_CAUTION } from '../../templates/template-words';
 import { ClassesApi } from '../classes-api';
 import { StatusChip } from '../shared/status-chip';
+import { AssignmentEdit } from './assignment-edit';
 
 type Loaded<T> = { state: 'loading' } | { state: 'ok'; value: T } | { state: 'failed'; status: number; message: string };
 
@@ -39,7 +40,7 @@ export function queueOrder(queue: readonly QueueEntry[]): QueueEntry[] {
  */
 @Component({
   selector: 'dm-assignment-page',
-  imports: [DatePipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatIconModule, MatProgressBarModule, MatSelectModule, StatusChip],
+  imports: [DatePipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatIconModule, MatProgressBarModule, MatSelectModule, StatusChip, AssignmentEdit],
   templateUrl: './assignment-page.html',
   styleUrl: './assignment-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -75,6 +76,8 @@ export class AssignmentPage {
 
   protected readonly profiles = signal<readonly MeterProfileRecord[]>([]);
   protected readonly meter = new FormControl<number | null>(null);
+  protected readonly editing = signal(false);
+  protected readonly saved = signal(false);
   protected readonly starting = signal(false);
   protected readonly startError = signal<string | null>(null);
 
@@ -108,6 +111,12 @@ export class AssignmentPage {
 
   protected reload(): void {
     this.reloads.update((n) => n + 1);
+  }
+
+  protected applyEdit(updated: AssignmentDetail): void {
+    this.editing.set(false);
+    this.saved.set(true);
+    this.loaded.set({ state: 'ok', value: updated });
   }
 
   /** Makes (or finds) the student's class survey and opens the grid. */

@@ -88,6 +88,18 @@ describe('ClassPage', () => {
       expect(text()).toContain('Removed: Ines Marlow');
     });
 
+    it('archives the class and brings it back', async () => {
+      await open(classDetail());
+      await (await button(/Archive the class/)).click();
+      const req = await nextRequest(http, (r) => r.method === 'PATCH');
+      expect(req.request.url).toBe('/api/classes/3');
+      expect(req.request.body).toEqual({ archived: true });
+      req.flush(classDetail({ archived: true }));
+      await fixture.whenStable();
+      expect(text()).toContain('· archived');
+      expect(await (await button(/Bring the class back/)).getText()).toContain('Bring the class back');
+    });
+
     it('lists the assignments with the submissions waiting', async () => {
       await open(classDetail());
       await tab(/Assignments/);

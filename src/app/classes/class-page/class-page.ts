@@ -68,6 +68,19 @@ export class ClassPage {
       });
   }
 
+  protected readonly archiveError = signal<string | null>(null);
+
+  /** Archives the class (it leaves the list; nothing is deleted) or brings it back. */
+  protected setArchived(archived: boolean): void {
+    const c = this.cls();
+    if (!c) return;
+    this.archiveError.set(null);
+    this.api.update(c.id, { archived }).subscribe({
+      next: (updated) => this.loaded.set({ state: 'ok', value: updated }),
+      error: (err: unknown) => this.archiveError.set(apiErrorOf(err).message),
+    });
+  }
+
   protected reload(): void {
     this.reloads.update((n) => n + 1);
   }

@@ -4,7 +4,7 @@ import { Type } from '@angular/core';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { HarnessLoader } from '@angular/cdk/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
-import { Router, provideRouter } from '@angular/router';
+import { NavigationStart, Router, provideRouter } from '@angular/router';
 import { clearAuthStorage, sessionFor } from '../../../testing/http-testing';
 import type { Role } from '../../core/auth/roles';
 import { Auth } from '../../core/auth/auth';
@@ -18,17 +18,10 @@ export function classBed(roles: Role[] | null, userId: number = 7): { http: Http
     providers: [provideRouter([{ path: '**', children: [] }]), provideHttpClient(withInterceptors([httpErrors, authToken])), provideHttpClientTesting()],
   });
   if (roles) TestBed.inject(Auth).begin(sessionFor(roles, 1, userId));
+  // Where the app navigated (each navigation's URL as it starts).
   const navigations: string[] = [];
-  const router = TestBed.inject(Router);
-  const original = router.navigateByUrl.bind(router);
-  spyOn(router, 'navigateByUrl').and.callFake((url, extras) => {
-    navigations.push(typeof url === 'string' ? url : router.serializeUrl(url));
-    return original(url, extras);
-  });
-  spyOn(router, 'navigate').and.callFake((commands, extras) => {
-    const tree = router.createUrlTree(commands, extras);
-    navigations.push(router.serializeUrl(tree));
-    return original(tree);
+  TestBed.inject(Router).events.subscribe((e) => {
+    if (e instanceof NavigationStart) navigations.push(e.url);
   });
   return { http: TestBed.inject(HttpTestingController), navigations };
 }

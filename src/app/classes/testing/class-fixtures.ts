@@ -201,8 +201,8 @@ export function results(): ClassResults {
       ],
     ],
     points: [
-      { assignmentId: 41, testPointKey: 'tp-r7', label: 'R7 plate load', compared: 2, agreed: 2, share: 1 },
-      { assignmentId: 41, testPointKey: 'tp-r9', label: 'R9 grid leak', compared: 2, agreed: 1, share: 0.5 },
+      { assignmentId: 41, testPointKey: 'tp-r7', label: 'R7 plate load', compared: 2, agreed: 2, share: 100 },
+      { assignmentId: 41, testPointKey: 'tp-r9', label: 'R9 grid leak', compared: 2, agreed: 1, share: 50 },
       { assignmentId: 42, testPointKey: 'tp-r1', label: 'R1 surge resistor', compared: 0, agreed: 0, share: null },
     ],
   };

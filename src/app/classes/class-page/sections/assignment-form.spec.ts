@@ -34,7 +34,7 @@ function set(id: number, templateId: number, label: string): SetSummary {
 }
 
 function survey(id: number, state: SurveySummary['state'], purpose: SurveySummary['purpose'] = 'intake'): SurveySummary {
-  return { id, setId: 5, purpose, state, templateId: 11, versionNumber: 2, meterName: 'Bench DMM', startedBy: { id: 7, name: 'Ada Voss' }, startedAt: '2027-01-02T10:00:00Z', completedAt: state === 'complete' ? '2027-01-03T10:00:00Z' : null, counts: { inBand: 3, nearLimit: 0, out: 0, inconclusive: 0, unread: 0 } };
+  return { id, setId: 5, purpose, state, templateId: 11, versionNumber: 3, meterName: 'Bench DMM', startedBy: { id: 7, name: 'Ada Voss' }, startedAt: '2027-01-02T10:00:00Z', completedAt: state === 'complete' ? '2027-01-03T10:00:00Z' : null, counts: { inBand: 3, nearLimit: 0, out: 0, inconclusive: 0, unread: 0 } };
 }
 
 describe('AssignmentForm', () => {
@@ -78,17 +78,25 @@ describe('AssignmentForm', () => {
     await setSelect.open();
     expect((await Promise.all((await setSelect.getOptions()).map((o) => o.getText())))).toEqual(['Bench Wren A · serial S-5', 'Spare Wren · serial S-8']);
     await setSelect.clickOptions({ text: /Bench Wren A/ });
-    (await nextRequest(http, '/api/sets/5/surveys')).flush({ items: [survey(70, 'complete'), survey(71, 'draft'), survey(72, 'complete', 'assignment')] });
+    (await nextRequest(http, '/api/sets/5/surveys')).flush({ items: [survey(70, 'complete'), survey(71, 'draft'), survey(72, 'complete', 'assignment'), survey(73, 'complete', 'periodic'), { ...survey(74, 'complete'), versionNumber: 2 }] });
     await fixture.whenStable();
   }
 
-  it('offers the newest published version, the sets of that template and only their complete non-class surveys as reference', async () => {
+  it('offers the newest published version, the sets of that template and only their complete non-class surveys of that version as reference', async () => {
     await chooseWren();
     expect(await (await select('versionNumber')).getValueText()).toContain('Version 3');
     const ref = await select('referenceSurveyId');
-    expect(await ref.getValueText()).toContain('intake');
+    await ref.open();
+    // "None yet", then surveys 70 and 73 (version 3); not the draft, the class survey or the version-2 survey.
+    expect((await ref.getOptions()).length).toBe(3);
+    await ref.clickOptions({ text: /intake/ });
+    const version = await select('versionNumber');
+    await version.open();
+    await version.clickOptions({ text: /Version 2/ });
+    await fixture.whenStable();
     await ref.open();
     expect((await ref.getOptions()).length).toBe(2);
+    expect(await ref.getValueText()).toBe('');
   });
 
   it('refuses a due date in the past and a missing title without a request', async () => {
@@ -103,6 +111,9 @@ describe('AssignmentForm', () => {
 
   it('creates the assignment with the allowance rule, predict first and hidden verdicts', async () => {
     await chooseWren();
+    const ref = await select('referenceSurveyId');
+    await ref.open();
+    await ref.clickOptions({ text: /intake/ });
     await (await input('title')).setValue('Wren 3: the audio stage');
     await (await input('dueAt')).setValue('2031-04-01T18:00');
     await (await loader.getHarness(MatButtonToggleHarness.with({ text: 'A restoration allowance' }))).check();

@@ -123,7 +123,8 @@ interface TemplateChoice {
                 <mat-option [value]="s.id">{{ s.purpose }}, {{ (s.completedAt ?? s.startedAt) | date: 'mediumDate' }} · version {{ s.versionNumber }}{{ s.meterName ? ' · ' + s.meterName : '' }}</mat-option>
               }
             </mat-select>
-            <mat-hint>Your own complete survey of the training set; students see it after acceptance.</mat-hint>
+            <mat-hint>Your own complete survey of the training set on this version; students see it after acceptance.</mat-hint>
+            <mat-error><dm-field-errors [control]="form.controls.referenceSurveyId" /></mat-error>
           </mat-form-field>
         </div>
         <div class="pair">
@@ -198,11 +199,15 @@ export class AssignmentForm {
   protected readonly busy = signal(false);
   private readonly mySets = signal<readonly SetSummary[]>([]);
   protected readonly versions = signal<readonly VersionSummary[]>([]);
-  protected readonly references = signal<readonly SurveySummary[]>([]);
+  /** The set's complete surveys of its own (not class surveys). */
+  private readonly setSurveys = signal<readonly SurveySummary[]>([]);
 
   protected readonly bandFrom = toSignal(this.form.controls.bandFrom.valueChanges.pipe(startWith(this.form.controls.bandFrom.value)), { initialValue: 'template' as const });
   private readonly templateId = toSignal(this.form.controls.templateId.valueChanges, { initialValue: null });
   private readonly setId = toSignal(this.form.controls.setId.valueChanges, { initialValue: null });
+  private readonly versionNumber = toSignal(this.form.controls.versionNumber.valueChanges, { initialValue: null });
+  /** Reference candidates: the set's complete surveys of the chosen version (the test points must match). */
+  protected readonly references = computed(() => this.setSurveys().filter((s) => s.versionNumber === this.versionNumber()));
 
   protected readonly templateChoices = computed<TemplateChoice[]>(() => {
     const seen = new Map<number, TemplateChoice>();
@@ -261,8 +266,16 @@ export class AssignmentForm {
         takeUntilDestroyed(),
       )
       .subscribe((list) => {
-        this.references.set(list);
-        if (list.length === 1) this.form.controls.referenceSurveyId.setValue(list[0].id);
+        this.setSurveys.set(list);
+        const fitting = this.references();
+        if (fitting.length === 1) this.form.controls.referenceSurveyId.setValue(fitting[0].id);
+      });
+    // A reference of another version does not fit: drop it when the version changes.
+    toObservable(this.versionNumber)
+      .pipe(takeUntilDestroyed())
+      .subscribe(() => {
+        const chosen = this.form.controls.referenceSurveyId.value;
+        if (chosen !== null && !this.references().some((s) => s.id === chosen)) this.form.controls.referenceSurveyId.setValue(null);
       });
   }
 
