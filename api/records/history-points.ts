@@ -13,8 +13,8 @@
  * is invalidated by hand, so nothing can be forgotten. (Like the grid cache, a tube-type library
  * edit is not seen until the process restarts: api/surveys/survey-view.ts.)
  *
- * Bounded: at most POINTS_CACHE_MAX surveys (about 40 kB each for a 400-point survey), least
- * recently used first out.
+ * Bounded: at most POINTS_CACHE_MAX surveys, least recently used first out (measured on the
+ * bench's scaled database: about 60 kB of heap per survey of 250 readings, so 30 MB at most).
  */
 import { createHash } from 'node:crypto';
 import type { HistoryPointInput } from '../domain/part-history';
@@ -30,7 +30,7 @@ export interface SurveyPoint {
   point: HistoryPointInput;
 }
 
-export const POINTS_CACHE_MAX = 1024;
+export const POINTS_CACHE_MAX = 512;
 const cache = new Map<number, { key: string; points: readonly SurveyPoint[] }>();
 
 /** Counts since the process started (the spec reads them to tell a computed answer from a kept one). */
@@ -75,6 +75,24 @@ export async function surveyPoints(
   return points;
 }
 
+/** One string per enum word (the driver makes a new one per row), one band object per grid row. */
+const words = new Map<string, string>();
+const word = <T extends string>(w: T): T => {
+  const had = words.get(w);
+  if (had !== undefined) return had as T;
+  if (words.size < 256) words.set(w, w);
+  return w;
+};
+const bands = new WeakMap<object, { lowPct: number; highPct: number }>();
+function bandOf(band: { lowPct: number; highPct: number }): { lowPct: number; highPct: number } {
+  let b = bands.get(band);
+  if (b === undefined) {
+    b = { lowPct: band.lowPct, highPct: band.highPct };
+    bands.set(band, b);
+  }
+  return b;
+}
+
 function computePoints(survey: SurveyRow, readings: readonly HistoryReading[], grid: SurveyGrid): SurveyPoint[] {
   const meter = (survey.meter as MeterSnapshot | null)?.name ?? null;
   const jointChecks = survey.jointChecks as Record<string, unknown>;
@@ -95,14 +113,14 @@ function computePoints(survey: SurveyRow, readings: readonly HistoryReading[], g
         surveyId: survey.id,
         readingId: r.id,
         at: r.takenAt,
-        state: r.state,
+        state: word(r.state),
         ohms: implied ? implied.ohms : r.ohms,
         valueFrom: implied ? 'implied' : 'reading',
         nominalOhms,
         uncertaintyOhms: implied ? half : ev.uncertaintyOhms,
-        band: row.band ? { lowPct: row.band.lowPct, highPct: row.band.highPct } : null,
+        band: row.band ? bandOf(row.band) : null,
         verdict: ev.verdict,
-        method: r.method,
+        method: word(r.method),
         meter,
       },
     });
