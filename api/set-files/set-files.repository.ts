@@ -1,5 +1,5 @@
 /** Photos of a set: the records (the bytes live in the storage under `storageKey` and `thumbnailKey`). */
-import { and, asc, eq } from 'drizzle-orm';
+import { and, asc, eq, isNull } from 'drizzle-orm';
 import { readings, setFiles, surveys, users } from '../../schema/index';
 import type { Tx } from '../db';
 
@@ -48,13 +48,13 @@ export async function findSetFile(tx: Tx, setId: number, fileId: number): Promis
   return row;
 }
 
-/** A reading of one of the set's surveys (its id and test point), or undefined. */
+/** A reading of one of the set's own surveys (its id and test point), or undefined; class surveys are their students' (DEVELOPERS.md "Classes"). */
 export async function readingOfSet(tx: Tx, setId: number, readingId: number): Promise<{ id: number; testPointKey: string; surveyId: number } | undefined> {
   const [row] = await tx
     .select({ id: readings.id, testPointKey: readings.testPointKey, surveyId: readings.surveyId })
     .from(readings)
     .innerJoin(surveys, eq(surveys.id, readings.surveyId))
-    .where(and(eq(readings.id, readingId), eq(surveys.setId, setId)));
+    .where(and(eq(readings.id, readingId), eq(surveys.setId, setId), isNull(surveys.assignmentId)));
   return row;
 }
 

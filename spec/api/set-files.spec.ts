@@ -18,6 +18,7 @@ import { FsStorage, readAll } from '../../api/storage/index';
 import { setFiles } from '../../schema/index';
 import { apiEnv, bearer, userSession, type Session } from '../support/api-env';
 import { addReading, makeSet, makeSurvey } from '../support/bench-fixtures';
+import { addStudent, makeAssignment, makeClass, makeClassSurvey } from '../support/class-fixtures';
 import { tableState } from '../support/table-state';
 
 const png = (w = 40, h = 30) => sharp({ create: { width: w, height: h, channels: 3, background: { r: 200, g: 120, b: 40 } } }).png().toBuffer();
@@ -210,6 +211,20 @@ describe('Photos of a set', () => {
     const detached = await request(app).patch(path).set(bearer(owner)).send({ readingId: null });
     expect(detached.status).toBe(200);
     expect(detached.body).toEqual(jasmine.objectContaining({ readingId: null, testPointKey: null, surveyId: null }));
+  });
+
+  it("refuses a class survey's reading of a training set (the student's, not the set's) beside the set's own survey's reading", async () => {
+    const klass = await makeClass({ instructorId: owner.user.id });
+    const assignment = await makeAssignment({ classId: klass.id, reference: true });
+    const studentId = await addStudent(klass.id);
+    const classSurvey = await makeClassSurvey(assignment.id, studentId);
+    const theirs = await addReading(classSurvey, { testPointKey: 'tp-r2', text: '300k' });
+    const own = await addReading(assignment.referenceSurveyId!, { testPointKey: 'tp-r2', text: '305k' });
+    const refused = await upload(owner, assignment.setId, await png(), 'r2.png', { readingId: String(theirs) });
+    expect(refused.status).toBe(400);
+    expect(refused.body.error.details.field).toBe('readingId');
+    const linked = await upload(owner, assignment.setId, await png(), 'r2.png', { readingId: String(own) });
+    expect(linked.status).withContext(JSON.stringify(linked.body)).toBe(201);
   });
 
   it('deletes a photo with its stored bytes and thumbnail; the other photo stays', async () => {
