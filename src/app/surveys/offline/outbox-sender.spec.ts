@@ -105,6 +105,39 @@ describe('OutboxSender', () => {
     expect(await db.outbox(5)).toEqual([]);
   });
 
+  it('keeps the write queued on a 503 from an API whose database is down, and sends it once when it answers again', async () => {
+    const a = await queue('tp-r1', '10M');
+    const b = await queue('tp-r2', '260k');
+    const round = sender.flush();
+    const failed = await post();
+    const key = bodyOf(failed).clientKey;
+    // What api/http/errors.ts answers while PostgreSQL is unreachable (the error shape, Retry-After).
+    failed.flush(
+      { error: { code: 'database-unavailable', message: 'The database cannot be reached just now. Nothing was saved by this request; try again in a moment.' } },
+      { status: 503, statusText: 'Service Unavailable', headers: { 'Retry-After': '5' } },
+    );
+    await round;
+    expect(away).toEqual([true]);
+    expect(refused).toEqual([]);
+    expect((await db.outbox(5)).map((i) => [i.seq, i.refused])).toEqual([
+      [a.seq, null],
+      [b.seq, null],
+    ]);
+    expect(http.match(() => true).length).toBe(0);
+
+    // The next retry (here: back online) sends the same write, then the next, each once.
+    window.dispatchEvent(new Event('online'));
+    const again = await post();
+    expect(bodyOf(again).clientKey).toBe(key);
+    again.flush(answer(bodyOf(again)), { status: 201, statusText: 'Created' });
+    const next = await post();
+    next.flush(answer(bodyOf(next)), { status: 201, statusText: 'Created' });
+    await nextTask(50);
+    expect(sent.map((s) => s.item.seq)).toEqual([a.seq, b.seq]);
+    expect(away[away.length - 1]).toBeFalse();
+    expect(await db.outbox(5)).toEqual([]);
+  });
+
   it('keeps a refused write aside with the API’s message and goes on with the next', async () => {
     const bad = await queue('tp-r1', '10M');
     const good = await queue('tp-r2', '260k');
