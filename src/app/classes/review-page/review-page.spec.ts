@@ -2,6 +2,7 @@ import { HttpTestingController } from '@angular/common/http/testing';
 import { ComponentFixture } from '@angular/core/testing';
 import { HarnessLoader } from '@angular/cdk/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
+import { MatButtonToggleHarness } from '@angular/material/button-toggle/testing';
 import { MatCheckboxHarness } from '@angular/material/checkbox/testing';
 import { MatInputHarness } from '@angular/material/input/testing';
 import { clearAuthStorage, nextRequest } from '../../../testing/http-testing';
@@ -175,5 +176,32 @@ describe('ReviewPage', () => {
       expect(el.querySelector('[data-test=reference-hidden]')).toBeNull();
       expect(Array.from(el.querySelectorAll('a')).some((x) => x.textContent?.includes('Re-measure now'))).toBeFalse();
     });
+  });
+});
+
+describe('ReviewPage, the row filter', () => {
+  let http: HttpTestingController;
+  beforeEach(() => ({ http } = classBed(['instructor'], 7)));
+  afterEach(() => {
+    http.verify();
+    clearAuthStorage();
+  });
+
+  it('shows all points, only those read, or those needing attention (disagreement, other verdict, hints, comments, marks)', async () => {
+    const rows = reviewView().rows;
+    const unread = { ...rows[0], testPointKey: 'tp-c2', label: 'C2 can section', student: { reading: null, verdict: null, uncertaintyOhms: null }, prediction: null, comparison: null };
+    const { fixture, loader, el } = await mountPage(ReviewPage, { id: '81' });
+    (await nextRequest(http, '/api/attempts/81/review')).flush(reviewView({ rows: [...rows, unread] }));
+    await fixture.whenStable();
+    const keys = () => Array.from(el.querySelectorAll('tr[data-key]')).map((r) => r.getAttribute('data-key'));
+    expect(keys()).toEqual(['tp-r7', 'tp-r9', 'tp-v2', 'tp-c2']);
+    await (await loader.getHarness(MatButtonToggleHarness.with({ text: /^Read/ }))).check();
+    expect(keys()).toEqual(['tp-r7', 'tp-r9', 'tp-v2']);
+    await (await loader.getHarness(MatButtonToggleHarness.with({ text: /^Needing attention/ }))).check();
+    expect(keys()).toEqual(['tp-r9']);
+    await (await loader.getHarness(MatButtonToggleHarness.with({ text: /^All/ }))).check();
+    await (await loader.getAllHarnesses(MatCheckboxHarness))[0].check();
+    await (await loader.getHarness(MatButtonToggleHarness.with({ text: /^Needing attention/ }))).check();
+    expect(keys()).toEqual(['tp-r7', 'tp-r9']);
   });
 });

@@ -3,6 +3,7 @@ import { ChangeDetectionStrategy, Component, ElementRef, Injector, afterNextRend
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { AbstractControl, FormControl, NonNullableFormBuilder, ReactiveFormsModule, ValidationErrors, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -43,7 +44,7 @@ const MESSAGES = {
  */
 @Component({
   selector: 'dm-review-page',
-  imports: [DatePipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, FieldErrors, VerdictBadge, StatusChip],
+  imports: [DatePipe, ReactiveFormsModule, RouterLink, MatButtonModule, MatButtonToggleModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule, FieldErrors, VerdictBadge, StatusChip],
   templateUrl: './review-page.html',
   styleUrl: './review-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -95,6 +96,18 @@ export class ReviewPage {
   protected readonly showPrediction = computed(() => {
     const v = this.view();
     return !!v && (v.assignment.predictFirst || v.rows.some((r) => r.prediction !== null));
+  });
+  /** Which rows the table shows: all, only those read, or those that need the reviewer's eye. */
+  protected readonly filter = signal<'all' | 'read' | 'attention'>('all');
+  protected readonly readRows = computed(() => (this.view()?.rows ?? []).filter((r) => r.student.reading !== null));
+  protected readonly attentionRows = computed(() =>
+    (this.view()?.rows ?? []).filter(
+      (r) => r.comparison?.agreement === 'disagree' || r.comparison?.verdictAgreement === false || r.hints.length > 0 || r.comments.length > 0 || r.remeasureRequested || this.remeasure().has(r.testPointKey),
+    ),
+  );
+  protected readonly shownRows = computed(() => {
+    const f = this.filter();
+    return f === 'read' ? this.readRows() : f === 'attention' ? this.attentionRows() : (this.view()?.rows ?? []);
   });
   protected readonly remeasureRows = computed(() => (this.view()?.rows ?? []).filter((r) => r.remeasureRequested));
 

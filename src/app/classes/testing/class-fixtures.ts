@@ -203,6 +203,7 @@ export function results(): ClassResults {
     points: [
       { assignmentId: 41, testPointKey: 'tp-r7', label: 'R7 plate load', compared: 2, agreed: 2, share: 100 },
       { assignmentId: 41, testPointKey: 'tp-r9', label: 'R9 grid leak', compared: 2, agreed: 1, share: 50 },
+      { assignmentId: 41, testPointKey: 'tp-v3', label: 'V3 pin 2 to chassis', compared: 0, agreed: 0, share: null },
       { assignmentId: 42, testPointKey: 'tp-r1', label: 'R1 surge resistor', compared: 0, agreed: 0, share: null },
     ],
   };

@@ -48,7 +48,7 @@ export function internalLink(link: string): string | null {
       [matBadge]="unread() > 0 ? (unread() > 99 ? '99+' : unread()) : null"
       [matBadgeHidden]="unread() === 0"
       matBadgeColor="warn"
-      matBadgeSize="small"
+      matBadgeSize="medium"
       aria-hidden="false"
     >
       <mat-icon aria-hidden="true">{{ unread() > 0 ? 'notifications_unread' : 'notifications' }}</mat-icon>
@@ -62,7 +62,7 @@ export function internalLink(link: string): string | null {
       </div>
       @for (n of items(); track n.id) {
         <button mat-menu-item type="button" class="item" [class.unread]="n.readAt === null" (click)="open(n)" [attr.data-unread]="n.readAt === null">
-          <mat-icon aria-hidden="true">{{ icons[n.kind] ?? 'notifications' }}</mat-icon>
+          <mat-icon aria-hidden="true">{{ icons[n.kind] }}</mat-icon>
           <span class="text">
             <span class="title">{{ n.readAt === null ? 'New: ' : '' }}{{ n.title }}</span>
             <span class="body">{{ n.body }}</span>

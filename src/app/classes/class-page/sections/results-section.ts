@@ -77,6 +77,7 @@ export function shareText(p: { compared: number; agreed: number; share: number |
         </div>
 
         <h3>Where students go wrong</h3>
+        <p class="sub">Per test point, the share of students whose latest attempt agreed with the reference (E<sub>n</sub> ≤ 1), lowest first.</p>
         <mat-form-field subscriptSizing="dynamic">
           <mat-label>Assignment</mat-label>
           <mat-select [value]="chosen()" (valueChange)="chosen.set($event)">
@@ -109,6 +110,9 @@ export function shareText(p: { compared: number; agreed: number; share: number |
             </table>
           </div>
         }
+        @if (uncompared().length) {
+          <p class="sub" data-test="uncompared">Not compared at {{ uncompared().length }} test point{{ uncompared().length === 1 ? '' : 's' }}: {{ labels(uncompared()) }}.</p>
+        }
       }
     }
   `,
@@ -133,12 +137,23 @@ export class ResultsSection {
   protected readonly results = signal<ClassResults | null>(null);
   protected readonly chosen = signal<number | null>(null);
   protected readonly downloading = signal(false);
-  protected readonly points = computed(() => {
+  private readonly ofAssignment = computed(() => {
     const r = this.results();
     const id = this.chosen();
     return r && id !== null ? r.points.filter((p) => p.assignmentId === id) : [];
   });
+  /** The compared points, where students went wrong most first (lowest share of agreement). */
+  protected readonly points = computed(() =>
+    this.ofAssignment()
+      .filter((p) => p.compared > 0)
+      .sort((a, b) => a.agreed / a.compared - b.agreed / b.compared || a.label.localeCompare(b.label)),
+  );
+  /** Points no student's reading could be compared at (no reference reading, not read, other method). */
+  protected readonly uncompared = computed(() => this.ofAssignment().filter((p) => p.compared === 0));
   protected readonly share = shareText;
+  protected labels(points: readonly { label: string }[]): string {
+    return points.map((p) => p.label).join(', ');
+  }
 
   constructor() {
     toObservable(computed(() => this.cls().id))
