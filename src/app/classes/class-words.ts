@@ -65,6 +65,11 @@ export function readingText(r: ReadingRecord | null): string {
   return r.method === 'in-circuit' ? value : `${value} (${r.method.replace(/-/g, ' ')})`;
 }
 
+/** Ohms as the bench writes them (`430 Ω`, `4.7 kΩ`). */
+export function ohmsText(ohms: number): string {
+  return formatOhms(ohms);
+}
+
 /** `+12.5 %` / `−3.0 %` with a true minus sign. */
 export function signedPct(p: number | null | undefined): string {
   if (p === null || p === undefined || !Number.isFinite(p)) return '—';

@@ -3,6 +3,7 @@ import { ComponentFixture } from '@angular/core/testing';
 import { HarnessLoader } from '@angular/cdk/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatInputHarness } from '@angular/material/input/testing';
+import { MatSelectHarness } from '@angular/material/select/testing';
 import { MatTabGroupHarness } from '@angular/material/tabs/testing';
 import type { ClassDetail } from '@domain/class-format';
 import { clearAuthStorage, nextRequest } from '../../../testing/http-testing';
@@ -141,6 +142,7 @@ describe('ClassPage', () => {
       (await nextRequest(http, '/api/students/21/competencies')).flush(competencyRecord(['meter-check']));
       await fixture.whenStable();
       expect(el.querySelector('[data-key=meter-check] [data-test=signed]')?.textContent).toContain('by Ada Voss');
+      expect(await (await loader.getHarness(MatSelectHarness)).getValueText()).toBe('Tomas Brell');
 
       await (await button(/Sign off Discharges the filter capacitors/)).click();
       await (await loader.getHarness(MatInputHarness.with({ selector: '[data-note]' }))).setValue('Seen on the Wren, bleeder and meter');

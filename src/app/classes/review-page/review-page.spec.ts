@@ -40,6 +40,7 @@ describe('ReviewPage', () => {
       expect(row('tp-r7').textContent).toContain('470 kΩ');
       expect(row('tp-r7').textContent).toContain('468 kΩ');
       expect(row('tp-r7').textContent).toContain('0.15');
+      expect(row('tp-r7').textContent).toContain('U ±9.4 kΩ');
       expect(row('tp-r7').querySelector('[data-agreement]')?.textContent?.trim()).toContain('agree');
       expect(row('tp-r9').querySelector('[data-agreement]')?.getAttribute('data-agreement')).toBe('disagree');
       expect(row('tp-r9').textContent).toContain('different verdict');

@@ -18,7 +18,7 @@ import { showServerError } from '../../core/errors/server-errors';
 import { ErrorMessages, FieldErrors } from '../../shared/field-errors/field-errors';
 import { VerdictBadge } from '../../shared/verdict-badge/verdict-badge';
 import { ClassesApi } from '../classes-api';
-import { HINT_LABELS, agreementNote, agreementText, enText, readingText, signedPct } from '../class-words';
+import { HINT_LABELS, agreementNote, agreementText, enText, ohmsText, readingText, signedPct } from '../class-words';
 import { StatusChip } from '../shared/status-chip';
 
 type Loaded<T> = { state: 'loading' } | { state: 'ok'; value: T } | { state: 'failed'; status: number; message: string };
@@ -66,6 +66,7 @@ export class ReviewPage {
   protected readonly enText = enText;
   protected readonly readingText = readingText;
   protected readonly signedPct = signedPct;
+  protected readonly ohmsText = ohmsText;
   protected readonly messages = MESSAGES;
 
   private readonly reloads = signal(0);

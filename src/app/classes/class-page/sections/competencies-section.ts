@@ -21,7 +21,7 @@ import { CompetencyList, SignOffRequest, WithdrawRequest } from '../../shared/co
     } @else {
       <mat-form-field subscriptSizing="dynamic">
         <mat-label>Student</mat-label>
-        <mat-select [value]="studentId()" (valueChange)="studentId.set($event)">
+        <mat-select [value]="chosenId()" (valueChange)="studentId.set($event)">
           @for (s of students(); track s.student.id) {
             <mat-option [value]="s.student.id">{{ s.student.name }}</mat-option>
           }
@@ -51,6 +51,8 @@ export class CompetenciesSection {
 
   protected readonly students = computed(() => this.cls().students.filter((s) => s.removedAt === null));
   protected readonly studentId = signal<number | null>(null);
+  /** The student shown: the one chosen, else the first of the class. */
+  protected readonly chosenId = computed(() => this.studentId() ?? this.students()[0]?.student.id ?? null);
   private readonly reloads = signal(0);
   protected readonly record = signal<CompetencyRecord | null>(null);
   protected readonly loading = signal(false);
@@ -61,7 +63,7 @@ export class CompetenciesSection {
   protected readonly mayWithdraw = (s: CompetencySignoff): boolean => this.auth.hasRole('admin') || (s.signedBy !== null && String(s.signedBy.id) === String(this.auth.user()?.id));
 
   constructor() {
-    toObservable(computed(() => ({ id: this.studentId() ?? this.students()[0]?.student.id ?? null, n: this.reloads() })))
+    toObservable(computed(() => ({ id: this.chosenId(), n: this.reloads() })))
       .pipe(
         tap(() => this.error.set(null)),
         switchMap(({ id }) => {
