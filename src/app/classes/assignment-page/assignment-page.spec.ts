@@ -39,10 +39,19 @@ describe('AssignmentPage', () => {
       expect(rows[0].querySelector('[data-status=late]')?.textContent).toContain('late');
       expect(rows[1].querySelector('[data-status=late]')).toBeNull();
       expect(rows[1].textContent).toContain('88');
+      expect(rows[2].querySelector('[data-status=late]')).toBeNull();
       expect(rows[0].querySelector('a[href="/attempts/81/review"]')?.textContent).toContain('Review');
       expect(rows[2].querySelector('a')).toBeNull();
       expect(text()).toContain('1 submission waits for review.');
       expect(el.querySelector('a[href="/surveys/70"]')?.textContent).toContain('reference survey');
+    });
+
+    it('marks a student who has not handed in after the due date late too, not before it', async () => {
+      await open(assignmentDetail({ dueAt: '2020-01-01T10:00:00Z' }));
+      const rows = Array.from(el.querySelectorAll('table[aria-label="Submission queue"] tbody tr'));
+      expect(rows[2].getAttribute('data-status')).toBe('not-started');
+      expect(rows[2].querySelector('[data-status=late]')).not.toBeNull();
+      expect(rows[1].querySelector('[data-status=late]')).toBeNull();
     });
 
     it('says so when there is no reference survey yet', async () => {

@@ -109,6 +109,13 @@ export class AssignmentPage {
       .subscribe((list) => this.profiles.set(list.filter((p) => !p.archived)));
   }
 
+  /** Late: submitted after the due date, or not handed in and the due date has passed. */
+  protected lateEntry(q: QueueEntry): boolean {
+    const a = this.a();
+    if (q.latestAttempt?.late) return true;
+    return a !== null && (q.status === 'not-started' || q.status === 'draft') && Date.parse(a.dueAt) < this.now();
+  }
+
   protected reload(): void {
     this.reloads.update((n) => n + 1);
   }
