@@ -94,6 +94,12 @@ describe('The content security policy on every route of the app, in Chromium', (
       labelToken ??= labels.body.find((l) => l.token)?.token ?? null;
     }
     expect(labelToken).withContext('the demo seed has a live provenance label').not.toBeNull();
+    // A class invitation's link (/join/:token), from real mail.
+    const instructor = await apiSignIn(DEMO.instructor);
+    const classes = await api<{ items: { id: number }[] }>('/api/classes', instructor.accessToken);
+    const classInvitee = uniqueEmail('csp-class-invitee');
+    expect((await api(`/api/classes/${classes.body.items[0].id}/invitations`, instructor.accessToken, 'POST', { emails: [classInvitee] })).status).toBe(201);
+    const joinPath = linkIn(await e2e().mail.waitFor(classInvitee, /join the class/)).pathname;
 
     const { page, watch } = await newPage();
     const findings = await sweep(page, watch, [
@@ -104,6 +110,7 @@ describe('The content security policy on every route of the app, in Chromium', (
       { path: '/reset-password' },
       { path: resetPath },
       { path: invitationPath },
+      { path: joinPath },
       { path: '/calc' },
       { path: `/p/${labelToken}` },
       { path: '/no/such/page' },
@@ -115,7 +122,7 @@ describe('The content security policy on every route of the app, in Chromium', (
       await api('/api/admin/settings', admin.accessToken, 'PUT', { openSignUp: false });
     }
     record(findings);
-    expect(findings.length).toBe(10);
+    expect(findings.length).toBe(11);
     expectClean(findings, 'visitor');
   });
 
@@ -211,14 +218,32 @@ describe('The content security policy on every route of the app, in Chromium', (
     }
   });
 
-  it('holds for the instructor and the student on the pages their menus offer', async () => {
+  it('holds for the instructor and the student on the pages their menus offer, and the class pages', async () => {
+    // The demo class: its assignments, an attempt of each, the student's own attempt.
+    const si = await apiSignIn(DEMO.instructor);
+    const ss = await apiSignIn(DEMO.student);
+    const classId = (await api<{ items: { id: number }[] }>('/api/classes', si.accessToken)).body.items[0].id;
+    const assignmentIds = (await api<{ assignments: { id: number }[] }>(`/api/classes/${classId}`, si.accessToken)).body.assignments.map((a) => a.id);
+    const classVisits: Visit[] = [{ path: '/classes' }, { path: `/classes/${classId}` }];
+    const studentVisits: Visit[] = [{ path: '/classes' }, { path: `/classes/${classId}` }, { path: '/competencies' }];
+    for (const id of assignmentIds) {
+      const queue = (await api<{ queue: { latestAttempt: { id: number } | null }[] }>(`/api/assignments/${id}`, si.accessToken)).body.queue;
+      classVisits.push({ path: `/assignments/${id}` });
+      const attempt = queue.find((q) => q.latestAttempt)?.latestAttempt;
+      if (attempt) classVisits.push({ path: `/attempts/${attempt.id}/review` });
+      const mine = (await api<{ myAttempts: { id: number }[] }>(`/api/assignments/${id}`, ss.accessToken)).body.myAttempts;
+      studentVisits.push({ path: `/assignments/${id}` });
+      if (mine.length) studentVisits.push({ path: `/attempts/${mine[0].id}/review` });
+    }
     const instructor = await newPage();
     await signIn(instructor.page, DEMO.instructor);
-    const fi = await sweep(instructor.page, instructor.watch, [{ path: '/home' }, { path: '/sets' }, { path: '/templates' }, { path: '/meters' }, { path: '/calc' }]);
+    const fi = await sweep(instructor.page, instructor.watch, [{ path: '/home' }, { path: '/sets' }, { path: '/templates' }, { path: '/meters' }, { path: '/calc' }, ...classVisits]);
+    record(fi);
     expectClean(fi, 'instructor');
     const student = await newPage();
     await signIn(student.page, DEMO.student);
-    const fs = await sweep(student.page, student.watch, [{ path: '/home' }, { path: '/templates' }, { path: '/templates/tube-types' }, { path: '/sets' }, { path: '/calc' }]);
+    const fs = await sweep(student.page, student.watch, [{ path: '/home' }, { path: '/templates' }, { path: '/templates/tube-types' }, { path: '/sets' }, { path: '/calc' }, ...studentVisits]);
+    record(fs);
     expectClean(fs, 'student');
   });
 
@@ -254,6 +279,12 @@ describe('The content security policy on every route of the app, in Chromium', (
       /^\/meters\/\d+$/,
       /^\/p\/[^/]+$/,
       /^\/calc$/,
+      /^\/classes$/,
+      /^\/classes\/\d+$/,
+      /^\/assignments\/\d+$/,
+      /^\/attempts\/\d+\/review$/,
+      /^\/join\/[^/]+$/,
+      /^\/competencies$/,
       /^\/no\/such\/page$/, // '**'
     ];
     const missing = patterns.filter((p) => !visited.some((v) => p.test(v))).map(String);
