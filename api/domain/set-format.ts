@@ -311,6 +311,8 @@ export interface SurveyView {
   order: string[];
   /** A class survey (assignment): the assignment's options and the caller's place; null outside a class. */
   classwork?: Classwork | null;
+  /** A student reading the reference survey of an assignment (after their own was accepted): that assignment. */
+  referenceFor?: { assignmentId: number; title: string } | null;
   /** The previous survey's readings of the same set, shown only after a new value is keyed. */
   previous: { surveyId: number; startedAt: string; readings: { testPointKey: string; text: string; state: ReadingState; ohms: number | null }[] } | null;
 }

@@ -267,7 +267,7 @@ export async function surveyViewOf(
   access: SetAccess,
   parallel = false,
   prefetched?: Prefetched,
-  who: Pick<repo.SurveyAccess, 'viewer' | 'classLink'> = { viewer: 'set', classLink: null },
+  who: Pick<repo.SurveyAccess, 'viewer' | 'classLink' | 'referenceFor'> = { viewer: 'set', classLink: null },
 ): Promise<SurveyView> {
   const set = access.set;
   // Outside a transaction the queries go out at once (pool connections); inside one, in turn.
@@ -304,7 +304,8 @@ export async function surveyViewOf(
   // The newest earlier survey of the set: its current values, for the grid to show once a new value is keyed.
   const earlier = siblings.filter((s) => s.createdAt < survey.createdAt || (s.createdAt.getTime() === survey.createdAt.getTime() && s.id < survey.id));
   let previous: SurveyView['previous'] = null;
-  if (earlier.length && who.classLink === null) {
+  // Not for a class survey (the set's surveys are not the student's), nor for a student reading a reference.
+  if (earlier.length && who.classLink === null && who.viewer !== 'reference') {
     const prev = earlier[earlier.length - 1];
     const fetched = prefetched ? await prefetched.previous : null;
     const readings = fetched !== null && fetched.surveyId === prev.id ? fetched.list : await repo.currentValuesOf(tx, prev.id);
@@ -332,6 +333,7 @@ export async function surveyViewOf(
     amendments,
     order,
     classwork: who.classLink !== null ? await classworkOf(tx, survey, who.classLink, who.viewer) : null,
+    referenceFor: who.viewer === 'reference' ? (who.referenceFor ?? null) : null,
     previous,
   };
 }

@@ -60,6 +60,8 @@ export interface SurveyAccess {
   access: SetAccess;
   viewer: SurveyViewer;
   classLink: ClassLink | null;
+  /** Viewer 'reference': the assignment whose reference this survey is (the student's way back to it). */
+  referenceFor?: { assignmentId: number; title: string } | null;
 }
 
 export async function classLinkOf(tx: Tx, assignmentId: number): Promise<ClassLink | null> {
@@ -91,12 +93,13 @@ export async function classLinkOf(tx: Tx, assignmentId: number): Promise<ClassLi
   };
 }
 
-/** A student whose own survey of an assignment with this reference survey was accepted may read it. */
-async function readsAsReference(tx: Tx, userId: number, surveyId: number): Promise<boolean> {
-  const r = await tx.execute(sql`
-    SELECT 1 FROM assignments a JOIN surveys sv ON sv.assignment_id = a.id
-    WHERE a.reference_survey_id = ${surveyId} AND sv.started_by = ${userId} AND sv.state = 'accepted' LIMIT 1`);
-  return r.rows.length > 0;
+/** A student whose own survey of an assignment with this reference survey was accepted may read it: that assignment, or null. */
+async function readsAsReference(tx: Tx, userId: number, surveyId: number): Promise<{ assignmentId: number; title: string } | null> {
+  const r = await tx.execute<{ id: number; title: string }>(sql`
+    SELECT a.id, a.title FROM assignments a JOIN surveys sv ON sv.assignment_id = a.id
+    WHERE a.reference_survey_id = ${surveyId} AND sv.started_by = ${userId} AND sv.state = 'accepted' ORDER BY a.id LIMIT 1`);
+  const a = r.rows[0];
+  return a ? { assignmentId: a.id, title: a.title } : null;
 }
 
 /**
@@ -121,9 +124,10 @@ export async function visibleSurvey(tx: Tx, user: Actor, surveyId: number, lock 
   try {
     return { survey, access: await visibleSet(tx, user, survey.setId), viewer: 'set', classLink: null };
   } catch {
-    if (await readsAsReference(tx, user.id, surveyId)) {
+    const referenceFor = await readsAsReference(tx, user.id, surveyId);
+    if (referenceFor) {
       const found = await findSet(tx, survey.setId, user.id);
-      if (found) return { survey, access: { set: found.set, owner: false, admin, shared: false }, viewer: 'reference', classLink: null };
+      if (found) return { survey, access: { set: found.set, owner: false, admin, shared: false }, viewer: 'reference', classLink: null, referenceFor };
     }
     throw notFound('No such survey.');
   }

@@ -252,6 +252,10 @@ describe('The reference survey', () => {
     expect(open.status).toBe(200);
     expect(open.body.survey.editable).toBeFalse();
     expect(open.body.readings.length).toBe(1);
+    // The student's way back is the assignment (the set page is not theirs); the instructor's view names none.
+    expect(open.body.referenceFor).toEqual({ assignmentId: w.assignmentId, title: jasmine.any(String) });
+    expect(open.body.previous).toBeNull();
+    expect((await get(w.instructor)).body.referenceFor).toBeNull();
     const write = await request(env.app).post(`/api/surveys/${w.referenceSurveyId}/readings`).set(bearer(w.a)).send(reading());
     expect(write.status).toBe(403);
     expect((await get(w.b)).status).toBe(404);

@@ -136,6 +136,8 @@ describe('A class survey, from the student side', () => {
     expect(accepted.status).withContext(JSON.stringify(accepted.body)).toBe(200);
     expect((await student.get(`/api/surveys/${referenceId}`)).status).toBe(200);
     await page.goto(url(`/surveys/${referenceId}`));
+    await page.locator('[data-test="reference-note"]').waitFor();
+    await page.getByRole('navigation', { name: 'Breadcrumb' }).getByRole('link', { name: PREDICT }).waitFor();
     await inputs(page).first().waitFor();
     expect(await inputs(page).first().isEditable()).toBeFalse();
     expect(watch.pageErrors).toEqual([]);
