@@ -48,7 +48,7 @@ describe('NewSurvey', () => {
   it('refuses a bad allowance before sending anything', async () => {
     const { fixture, loader, text } = await open();
     await (await loader.getHarness(MatButtonToggleHarness.with({ text: 'A restoration allowance' }))).check();
-    await (await loader.getHarness(MatInputHarness.with({ selector: '[formControlName=allowanceLow]' }))).setValue('15');
+    await (await loader.getHarness(MatInputHarness.with({ selector: '[data-test=allowanceLow]' }))).setValue('15');
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Start the survey' }))).click();
     await fixture.whenStable();
     http.expectNone((r) => r.method === 'POST');

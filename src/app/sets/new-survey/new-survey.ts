@@ -2,7 +2,6 @@ import { ChangeDetectionStrategy, Component, computed, inject, input, signal } f
 import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -17,6 +16,7 @@ import { catchError, forkJoin, map, of, startWith, switchMap } from 'rxjs';
 import { apiErrorOf } from '../../core/errors/api-error';
 import { showServerError } from '../../core/errors/server-errors';
 import { FieldErrors } from '../../shared/field-errors/field-errors';
+import { RuleFields } from '../../shared/rule-fields/rule-fields';
 import { SafetyCaution } from '../../shared/safety-caution/safety-caution';
 import { MetersApi } from '../../meters/meters-api';
 import { TemplatesApi, VersionSummary } from '../../templates/templates-api';
@@ -61,7 +61,6 @@ export function ruleOf(v: RuleFormValue): { rule: AcceptanceRule } | { field: ke
     ReactiveFormsModule,
     RouterLink,
     MatButtonModule,
-    MatButtonToggleModule,
     MatCheckboxModule,
     MatFormFieldModule,
     MatIconModule,
@@ -69,6 +68,7 @@ export function ruleOf(v: RuleFormValue): { rule: AcceptanceRule } | { field: ke
     MatProgressBarModule,
     MatSelectModule,
     FieldErrors,
+    RuleFields,
     SafetyCaution,
   ],
   templateUrl: './new-survey.html',
@@ -114,7 +114,6 @@ export class NewSurvey {
       note: [''],
     }),
   });
-  protected readonly bandFrom = toSignal(this.form.controls.rule.controls.bandFrom.valueChanges.pipe(startWith('template' as const)), { initialValue: 'template' as const });
   protected readonly decision = toSignal(this.form.controls.rule.controls.decision.valueChanges.pipe(startWith('simple' as const)), { initialValue: 'simple' as const });
   protected readonly meterChosen = toSignal(this.form.controls.meterProfileId.valueChanges.pipe(startWith(null), map(() => this.form.controls.meterProfileId.value !== null)), { initialValue: false });
 

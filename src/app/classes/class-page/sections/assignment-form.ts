@@ -3,7 +3,6 @@ import { ChangeDetectionStrategy, Component, computed, inject, input, output, si
 import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { AbstractControl, NonNullableFormBuilder, ReactiveFormsModule, ValidationErrors, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -12,10 +11,11 @@ import { MatSelectModule } from '@angular/material/select';
 import type { AssignmentDetail, AssignmentInput, ClassDetail } from '@domain/class-format';
 import type { SetSummary, SurveySummary } from '@domain/set-format';
 import { DEFAULT_ALLOWANCE, NEAR_LIMIT_FRACTION, type AcceptanceRule } from '@domain/verdict';
-import { catchError, map, of, startWith, switchMap } from 'rxjs';
+import { catchError, map, of, switchMap } from 'rxjs';
 import { apiErrorOf } from '../../../core/errors/api-error';
 import { showServerError } from '../../../core/errors/server-errors';
 import { ErrorMessages, FieldErrors } from '../../../shared/field-errors/field-errors';
+import { RuleFields } from '../../../shared/rule-fields/rule-fields';
 import { SetsApi } from '../../../sets/sets-api';
 import { TemplatesApi, VersionSummary } from '../../../templates/templates-api';
 import { ClassesApi } from '../../classes-api';
@@ -60,7 +60,7 @@ interface TemplateChoice {
  */
 @Component({
   selector: 'dm-assignment-form',
-  imports: [DatePipe, ReactiveFormsModule, MatButtonModule, MatButtonToggleModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, FieldErrors],
+  imports: [DatePipe, ReactiveFormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, FieldErrors, RuleFields],
   template: `
     <section class="block" aria-labelledby="new-assignment-title">
       <h3 id="new-assignment-title">New assignment</h3>
@@ -136,24 +136,7 @@ interface TemplateChoice {
         </div>
         <fieldset>
           <legend>Acceptance rule</legend>
-          <mat-button-toggle-group formControlName="bandFrom" aria-label="Where the band comes from">
-            <mat-button-toggle value="template">The template's tolerance</mat-button-toggle>
-            <mat-button-toggle value="allowance">A restoration allowance</mat-button-toggle>
-          </mat-button-toggle-group>
-          @if (bandFrom() === 'allowance') {
-            <div class="pair">
-              <mat-form-field>
-                <mat-label>Allowance below, %</mat-label>
-                <input matInput formControlName="allowanceLow" inputmode="decimal" autocomplete="off" />
-                <mat-error><dm-field-errors [control]="form.controls.allowanceLow" /></mat-error>
-              </mat-form-field>
-              <mat-form-field>
-                <mat-label>Allowance above, %</mat-label>
-                <input matInput formControlName="allowanceHigh" inputmode="decimal" autocomplete="off" />
-                <mat-error><dm-field-errors [control]="form.controls.allowanceHigh" /></mat-error>
-              </mat-form-field>
-            </div>
-          }
+          <dm-rule-fields [group]="form" />
         </fieldset>
         <mat-checkbox formControlName="predictFirst">Predict first: a predicted in-circuit reading before the expected values show</mat-checkbox>
         <mat-checkbox formControlName="showVerdicts">Show verdicts while measuring</mat-checkbox>
@@ -202,7 +185,6 @@ export class AssignmentForm {
   /** The set's complete surveys of its own (not class surveys). */
   private readonly setSurveys = signal<readonly SurveySummary[]>([]);
 
-  protected readonly bandFrom = toSignal(this.form.controls.bandFrom.valueChanges.pipe(startWith(this.form.controls.bandFrom.value)), { initialValue: 'template' as const });
   private readonly templateId = toSignal(this.form.controls.templateId.valueChanges, { initialValue: null });
   private readonly setId = toSignal(this.form.controls.setId.valueChanges, { initialValue: null });
   private readonly versionNumber = toSignal(this.form.controls.versionNumber.valueChanges, { initialValue: null });
