@@ -51,7 +51,7 @@ export async function reviewView(ctx: Ctx, actor: Actor, attemptId: number): Pro
   const remeasure = new Set(review?.remeasureKeys ?? []);
   return {
     attempt: list.find((x) => x.id === attemptId)!,
-    assignment: { id: a.assignment.id, title: a.assignment.title, classId: a.assignment.classId, dueAt: a.assignment.dueAt.toISOString(), predictFirst: a.assignment.predictFirst },
+    assignment: { id: a.assignment.id, title: a.assignment.title, classId: a.assignment.classId, className: a.cls.name, dueAt: a.assignment.dueAt.toISOString(), predictFirst: a.assignment.predictFirst },
     surveyState: a.survey.state,
     referenceShown: shown && reference !== null,
     referenceSurveyId: shown ? a.assignment.referenceSurveyId : null,

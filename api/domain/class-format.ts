@@ -274,7 +274,8 @@ export interface ReviewRow {
 /** GET /api/attempts/:id/review */
 export interface ReviewView {
   attempt: AttemptSummary;
-  assignment: { id: number; title: string; classId: number; dueAt: string; predictFirst: boolean };
+  /** `className`: the name of the assignment's class (the breadcrumb back to it). */
+  assignment: { id: number; title: string; classId: number; className: string; dueAt: string; predictFirst: boolean };
   surveyState: SurveyState;
   /** The reference is shown (instructor, or the student after acceptance). */
   referenceShown: boolean;

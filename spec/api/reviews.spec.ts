@@ -19,6 +19,7 @@ interface World {
   b: Session;
   admin: Session;
   stranger: Session;
+  classId: number;
   assignmentId: number;
   referenceSurveyId: number;
   surveyA: number;
@@ -45,7 +46,7 @@ async function world(r2 = '251k', opts: { studentConditions?: Partial<typeof SAM
   const env = await apiEnv();
   const db = env.database.db;
   const [instructor, a, b, admin, stranger] = await Promise.all([userSession(['instructor']), userSession(['student']), userSession(['student']), userSession(['admin']), userSession(['technician'])]);
-  const cls = await makeClass({ instructorId: instructor.user.id });
+  const cls = await makeClass({ instructorId: instructor.user.id, name: 'Thursday bench, group C' });
   await addStudent(cls.id, a.user.id);
   await addStudent(cls.id, b.user.id);
   const asg = await makeAssignment({ classId: cls.id, predictFirst: true, title: 'Audio stage survey' });
@@ -66,7 +67,7 @@ async function world(r2 = '251k', opts: { studentConditions?: Partial<typeof SAM
   await addReading(surveyA, { testPointKey: 'tp-r1', text: '2M', enteredBy: a.user.id });
   const sub = await request(env.app).post(`/api/surveys/${surveyA}/submit`).set(bearer(a));
   if (sub.status !== 200) throw new Error(`submit: ${sub.status} ${JSON.stringify(sub.body)}`);
-  return { instructor, a, b, admin, stranger, assignmentId: asg.id, referenceSurveyId: ref.id, surveyA, attemptId: sub.body.id };
+  return { instructor, a, b, admin, stranger, classId: cls.id, assignmentId: asg.id, referenceSurveyId: ref.id, surveyA, attemptId: sub.body.id };
 }
 
 const rowOf = (body: { rows: Row[] }, key: string) => body.rows.find((r) => r.testPointKey === key)!;
@@ -81,6 +82,8 @@ describe('GET /api/attempts/:id/review', () => {
     expect(r.body.referenceSurveyId).toBe(w.referenceSurveyId);
     expect(r.body.surveyState).toBe('submitted');
     expect(r.body.assignment.predictFirst).toBeTrue();
+    expect(r.body.assignment.classId).toBe(w.classId);
+    expect(r.body.assignment.className).toBe('Thursday bench, group C');
     expect(r.body.attempt.number).toBe(1);
 
     const r2 = rowOf(r.body, 'tp-r2');
@@ -133,6 +136,7 @@ describe('GET /api/attempts/:id/review', () => {
     const mine = await request(env.app).get(`/api/attempts/${w.attemptId}/review`).set(bearer(w.a));
     expect(mine.status).toBe(200);
     expect(mine.body.referenceShown).toBeFalse();
+    expect(mine.body.assignment.className).toBe('Thursday bench, group C');
     expect(mine.body.referenceSurveyId).toBeNull();
     expect(mine.body.suggestedScore).toBeNull();
     expect(mine.body.conditions.reference).toBeNull();

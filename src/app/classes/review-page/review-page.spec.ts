@@ -34,6 +34,16 @@ describe('ReviewPage', () => {
   describe('as the instructor', () => {
     beforeEach(() => ({ http } = classBed(['instructor'], 7)));
 
+    it('names the class and the assignment in the breadcrumb, each a link back', async () => {
+      await open(reviewView());
+      const crumbs = Array.from(el.querySelectorAll('nav.crumbs a')).map((a) => [a.textContent?.trim(), a.getAttribute('href')]);
+      expect(crumbs).toEqual([
+        ['Classes', '/classes'],
+        ['Bench practice, evening group', '/classes/3'],
+        ['Wren 3: the audio stage', '/assignments/41'],
+      ]);
+    });
+
     it('shows each test point beside the reference with E_n, the agreement and the not-comparable reason', async () => {
       await open(reviewView());
       expect(el.querySelector('[data-test=reference-col]')).not.toBeNull();

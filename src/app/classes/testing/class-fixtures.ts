@@ -149,7 +149,7 @@ export function reviewView(over: Partial<ReviewView> = {}): ReviewView {
   const a = attempt();
   return {
     attempt: a,
-    assignment: { id: 41, title: 'Wren 3: the audio stage', classId: 3, dueAt: '2030-04-01T16:00:00Z', predictFirst: true },
+    assignment: { id: 41, title: 'Wren 3: the audio stage', classId: 3, className: 'Bench practice, evening group', dueAt: '2030-04-01T16:00:00Z', predictFirst: true },
     surveyState: 'submitted',
     referenceShown: true,
     referenceSurveyId: 70,
