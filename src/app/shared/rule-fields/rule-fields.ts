@@ -10,12 +10,15 @@ import { FieldErrors } from '../field-errors/field-errors';
 /** Where an acceptance rule's band comes from: the template's tolerance or a flat allowance. */
 export type BandFrom = 'template' | 'allowance';
 
-/** The controls these fields edit; the form around them may hold more. */
+/** The controls these fields edit. */
 export interface RuleFieldControls {
   bandFrom: FormControl<BandFrom>;
   allowanceLow: FormControl<string>;
   allowanceHigh: FormControl<string>;
 }
+
+/** A form group holding those controls and maybe more (a `FormGroup<…>` with more controls is not a `FormGroup<RuleFieldControls>`). */
+export type RuleFieldGroup = Pick<FormGroup<RuleFieldControls>, 'controls'>;
 
 /**
  * The band part of an acceptance rule: the template's tolerance or a restoration allowance, and
@@ -51,7 +54,7 @@ export interface RuleFieldControls {
 })
 export class RuleFields {
   /** The group holding `bandFrom`, `allowanceLow` and `allowanceHigh` (the whole form or a part of it). */
-  readonly group = input.required<FormGroup<RuleFieldControls>>();
+  readonly group = input.required<RuleFieldGroup>();
 
   protected readonly bandFrom = toSignal(
     toObservable(this.group).pipe(switchMap((g) => g.controls.bandFrom.valueChanges.pipe(startWith(g.controls.bandFrom.value)))),
